@@ -1,0 +1,16 @@
+// eigenzeit: umbrella header, includes every public header.
+// Distributed under the Boost Software License, Version 1.0 (see LICENSE).
+#ifndef EIGENZEIT_EIGENZEIT_HPP
+#define EIGENZEIT_EIGENZEIT_HPP
+
+#include <eigenzeit/config.hpp>
+#include <eigenzeit/version.hpp>
+#include <eigenzeit/numeric/traits.hpp>
+#include <eigenzeit/numeric/eft.hpp>
+#include <eigenzeit/numeric/series.hpp>
+#include <eigenzeit/numeric/policy.hpp>
+#include <eigenzeit/numeric/ulp.hpp>
+#include <eigenzeit/numeric/wider.hpp>
+#include <eigenzeit/speed.hpp>
+
+#endif

@@ -1,0 +1,581 @@
+// eigenzeit: functions of a speed and the speed<T> value type.
+// Distributed under the Boost Software License, Version 1.0 (see LICENSE).
+//
+// Conventions: beta = v / c.  The free functions take a signed beta in (-1, 1); speed<T>
+// holds a magnitude in [0, 1).  "u" below is the unit roundoff of T (2^-53 for double).
+//
+// How the accuracy is reached.  The textbook forms lose digits in two places: 1 - beta^2
+// when beta is near 1, and gamma - 1 or 1 - 1/gamma when beta is small.  Here
+//   * q = 1 - beta^2 is formed as (1 - beta)(1 + beta) in double-word arithmetic: 1 - beta
+//     and 1 + beta are split exactly into two words (fast_two_sum), their product is split
+//     exactly by one fused multiply-add, so q carries about 2x the precision of T;
+//   * 1 / sqrt(q) is refined to double-word accuracy with one division: y = RN(1/RN(sqrt(q))),
+//     then gamma = y + y (t - r y^2 / 2), with t = 1 - y sqrt(q) and r = q - sqrt(q)^2 both
+//     exact residuals.  Neglected terms are O(u^2) relative, so gamma is the correctly
+//     rounded value except within O(u) of a rounding boundary;
+//   * gamma - 1 = (y - 1) + correction, again exact up to the final rounding, and for
+//     beta^2 below 2^-k (k = digits/3 + 1, see numeric/traits.hpp) a 4-term series in beta^2.
+// speed<T> stores beta and gamma each as a double-word number, so every view is one or two
+// exact residual steps away from a correctly rounded result, whatever constructor was used.
+#ifndef EIGENZEIT_SPEED_HPP
+#define EIGENZEIT_SPEED_HPP
+
+#include <cmath>
+#include <limits>
+#include <type_traits>
+
+#include <eigenzeit/config.hpp>
+#include <eigenzeit/numeric/eft.hpp>
+#include <eigenzeit/numeric/policy.hpp>
+#include <eigenzeit/numeric/series.hpp>
+#include <eigenzeit/numeric/traits.hpp>
+#include <eigenzeit/numeric/wider.hpp>
+
+namespace eigenzeit {
+
+namespace detail {
+
+using numeric::dd;
+using numeric::fast_two_sum;
+using numeric::fms;
+using numeric::two_prod;
+using numeric::two_sum;
+
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T quiet_nan() {
+  return std::numeric_limits<T>::quiet_NaN();
+}
+
+/// gamma - 1 = sum_{k>=1} C(2k,k)/4^k x^k for x = beta^2 given as a double-word number, used
+/// for x < 2^-k (k = series_exponent_v<T>).  Terms up to x^4 are kept: the first one dropped
+/// is below 0.5 x^4 < 2^-(4k+1) relative, and 4k >= digits + 3 for every T, so truncation
+/// stays below u/8.  The leading term x/2 is exact; the tail (< x/2 * 0.76 x) carries
+/// relative error ~3u, i.e. < 3u x: the result is within 0.5 ulp + 3u 2^-k of the truth.
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T gamma_m1_series(dd<T> x) {
+  const T tail = x.hi * x.hi * (T(3) / 8 + x.hi * (T(5) / 16 + x.hi * (T(35) / 128)));
+  return x.hi / 2 + (x.lo / 2 + tail);
+}
+
+/// 1 - sqrt(1 - x) = x/2 + x^2/8 + x^3/16 + 5x^4/128 + ..., same range and error argument.
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T dilation_series(dd<T> x) {
+  const T tail = x.hi * x.hi * (T(1) / 8 + x.hi * (T(1) / 16 + x.hi * (T(5) / 128)));
+  return x.hi / 2 + (x.lo / 2 + tail);
+}
+
+/// q = 1 - a^2 = (1 - a)(1 + a) for 0 <= a < 1, as a double-word number with relative error
+/// below 3u^2: both factors are split exactly, the product's rounding error is recovered by
+/// one fms, and the dropped product of the two low words is below u^2 q.
+template <class T>
+EIGENZEIT_HOST_DEVICE inline dd<T> one_minus_square(T a) {
+  dd<T> d = fast_two_sum(T(1), -a);
+  dd<T> s = fast_two_sum(T(1), a);
+  T qh = d.hi * s.hi;
+  T ql = fms(d.hi, s.hi, qh) + (d.hi * s.lo + d.lo * s.hi);
+  return {qh, ql};
+}
+
+/// 1 / sqrt(q) as an unevaluated sum y + c, relative error O(u^2).  One sqrt, one division.
+/// With s = RN(sqrt(qh)), y = RN(1/s): t = 1 - y s and r = q - s^2 are exact residuals and
+/// 1/sqrt(q) = y (1 + t)(1 - r / (2 s^2)) + O(u^2) = y + y (t - (r y) y / 2) + O(u^2).
+/// (r y) y instead of r y^2 keeps y^2 from overflowing when q is tiny.
+template <class T>
+EIGENZEIT_HOST_DEVICE inline dd<T> rsqrt_parts(dd<T> q) {
+  using std::sqrt;
+  T s = sqrt(q.hi);
+  T y = T(1) / s;
+  T t = -fms(y, s, T(1));
+  T r = -fms(s, s, q.hi) + q.lo;
+  return {y, y * (t - T(0.5) * (r * y) * y)};
+}
+
+/// gamma - 1 from gamma = y + c with y >= 1: y - 1 is split exactly, so the only rounding
+/// of consequence is the last one.  Used where gamma - 1 >= 2^-k-1, far above |c| u.
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T minus_one(dd<T> g) {
+  dd<T> h = fast_two_sum(g.hi, T(-1));
+  return h.hi + (h.lo + g.lo);
+}
+
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T copysign_(numeric::identity_t<T> magnitude, numeric::identity_t<T> sign_source) {
+  return sign_source < T(0) ? -magnitude : magnitude;
+}
+
+/// log1p(x) for 0 <= x <= 1/4 and log(x) for x >= 1.  For built-in types these are the std::
+/// functions, whose error on those ranges was measured below 1 ulp (glibc 2.36: log1pl
+/// reaches 2.2 ulp on [1/4, 1], hence the split at 1/4 below).  For Boost.Multiprecision
+/// types the call is made one rung wider (numeric::wider_t) and rounded back, because their
+/// own exp/log lose accuracy roughly in proportion to the argument.
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T log1p_small(T x) {
+  using std::log1p;
+  using W = numeric::wider_t<T>;
+  return T(log1p(W(x)));
+}
+
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T log_(T x) {
+  using std::log;
+  using W = numeric::wider_t<T>;
+  return T(log(W(x)));
+}
+
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T exp_(T x) {
+  using std::exp;
+  using W = numeric::wider_t<T>;
+  return T(exp(W(x)));
+}
+
+/// log1p(z.hi + z.lo) for z >= 0 (finite): log1p(z.hi) + z.lo / (1 + z.hi) for z.hi <= 1/4,
+/// otherwise log(w) + w.lo / w.hi with w = 1 + z split exactly.  Error: the library call's
+/// (< 1 ulp) plus 0.5 ulp for the final addition.
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T log1p_dd(numeric::dd<T> z) {
+  if (z.hi <= T(0.25)) return log1p_small(z.hi) + z.lo / (T(1) + z.hi);
+  numeric::dd<T> w = two_sum(T(1), z.hi);
+  return log_(w.hi) + (w.lo + z.lo) / w.hi;
+}
+
+}  // namespace detail
+
+// ============================================================================================
+// Free functions of a signed beta in (-1, 1)
+// ============================================================================================
+
+/// Lorentz factor gamma = 1 / sqrt(1 - beta^2).
+/// Domain: -1 < beta < 1; otherwise (and for NaN) a domain error through the policy.
+/// Accuracy: <= 1 ulp (measured max 0.5x ulp, double; see README for the table).
+template <class T, class Policy = throw_policy>
+inline numeric::promote_t<T> lorentz_factor(T beta_in, const Policy& pol = Policy()) {
+  using R = numeric::promote_t<T>;
+  using std::abs;
+  const R beta = R(beta_in);
+  const R a = abs(beta);
+  if (!(a < R(1)))
+    return numeric::domain_error<R>("eigenzeit::lorentz_factor<%1%>(%1%)",
+                                    "beta = %1%, but it must lie in the open interval (-1, 1)",
+                                    beta, pol);
+  numeric::dd<R> g = detail::rsqrt_parts(detail::one_minus_square(a));
+  return g.hi + g.lo;
+}
+
+/// gamma - 1 = beta^2 / (sqrt(1 - beta^2) (1 + sqrt(1 - beta^2))), without cancellation.
+/// Domain: -1 < beta < 1.  Accuracy: <= 1 ulp (double).
+template <class T, class Policy = throw_policy>
+inline numeric::promote_t<T> lorentz_factor_m1(T beta_in, const Policy& pol = Policy()) {
+  using R = numeric::promote_t<T>;
+  using std::abs;
+  const R beta = R(beta_in);
+  const R a = abs(beta);
+  if (!(a < R(1)))
+    return numeric::domain_error<R>("eigenzeit::lorentz_factor_m1<%1%>(%1%)",
+                                    "beta = %1%, but it must lie in the open interval (-1, 1)",
+                                    beta, pol);
+  numeric::dd<R> x = detail::two_prod(a, a);
+  if (x.hi < numeric::small_square_threshold<R>()) return detail::gamma_m1_series(x);
+  return detail::minus_one(detail::rsqrt_parts(detail::one_minus_square(a)));
+}
+
+/// Proper speed (celerity) u = beta * gamma, in units of c; keeps the sign of beta.
+/// Domain: -1 < beta < 1.  Accuracy: <= 1 ulp (double).
+template <class T, class Policy = throw_policy>
+inline numeric::promote_t<T> proper_speed(T beta_in, const Policy& pol = Policy()) {
+  using R = numeric::promote_t<T>;
+  using std::abs;
+  const R beta = R(beta_in);
+  const R a = abs(beta);
+  if (!(a < R(1)))
+    return numeric::domain_error<R>("eigenzeit::proper_speed<%1%>(%1%)",
+                                    "beta = %1%, but it must lie in the open interval (-1, 1)",
+                                    beta, pol);
+  numeric::dd<R> g = detail::rsqrt_parts(detail::one_minus_square(a));
+  // a (y + c) with the product split exactly: error 0.5 ulp + O(u^2).
+  numeric::dd<R> p = detail::two_prod(a, g.hi);
+  return detail::copysign_<R>(p.hi + (p.lo + a * g.lo), beta);
+}
+
+/// Fraction of coordinate time a moving clock loses: 1 - 1/gamma = 1 - sqrt(1 - beta^2).
+/// Domain: -1 < beta < 1.  Accuracy: <= 1 ulp (double).
+template <class T, class Policy = throw_policy>
+inline numeric::promote_t<T> dilation_fraction(T beta_in, const Policy& pol = Policy()) {
+  using R = numeric::promote_t<T>;
+  using std::abs;
+  using std::sqrt;
+  const R beta = R(beta_in);
+  const R a = abs(beta);
+  if (!(a < R(1)))
+    return numeric::domain_error<R>("eigenzeit::dilation_fraction<%1%>(%1%)",
+                                    "beta = %1%, but it must lie in the open interval (-1, 1)",
+                                    beta, pol);
+  numeric::dd<R> x = detail::two_prod(a, a);
+  if (x.hi < numeric::small_square_threshold<R>()) return detail::dilation_series(x);
+  // 1 - sqrt(q) with sqrt(q) = s + r / (2 s).  No division: 1/s is approximated by one Newton
+  // step from 2 - s, relative error (1 - s)^4; with |r| <= 5u q the correction's error is
+  // below 2.5u s (1 - s)^3 relative to the result (< 0.27u).  1 - s is split exactly.
+  const numeric::dd<R> q = detail::one_minus_square(a);
+  const R s = sqrt(q.hi);
+  const R r = -numeric::fms(s, s, q.hi) + q.lo;
+  R w = R(2) - s;
+  w = w * (R(2) - s * w);
+  numeric::dd<R> h = numeric::fast_two_sum(R(1), -s);
+  return h.hi + (h.lo - R(0.5) * r * w);
+}
+
+/// Rapidity eta = atanh(beta) = log1p(2 beta / (1 - beta)) / 2; keeps the sign of beta.
+/// Domain: -1 < beta < 1.  Accuracy: <= 2 ulp (double; log1p's own error included).
+template <class T, class Policy = throw_policy>
+inline numeric::promote_t<T> rapidity(T beta_in, const Policy& pol = Policy()) {
+  using R = numeric::promote_t<T>;
+  using std::abs;
+  const R beta = R(beta_in);
+  const R a = abs(beta);
+  if (!(a < R(1)))
+    return numeric::domain_error<R>("eigenzeit::rapidity<%1%>(%1%)",
+                                    "beta = %1%, but it must lie in the open interval (-1, 1)",
+                                    beta, pol);
+  // z = 2a / d with d = 1 - a split exactly; the quotient's remainder rho is exact, and
+  // log1p(z + rho/d) = log1p(z) + rho / (d (1 + z)) = log1p(z) + rho / (1 + a).
+  // 1/(1 + a) on [1, 2] is replaced by its best linear fit 8 (2 - a) / 17 (relative error
+  // <= 1/17); the correction is below u z / (1 + z), so this costs < 0.06u relative.
+  // For z > 1/4 (a > 1/9) the same is done with log(W) for W = 1 + z split exactly, whose
+  // low word enters as W.lo / W = W.lo d / (1 + a), with the same linear fit.
+  numeric::dd<R> d = numeric::fast_two_sum(R(1), -a);
+  const R two_a = a + a;
+  const R z = two_a / d.hi;
+  const R rho = -numeric::fms(z, d.hi, two_a) - z * d.lo;
+  const R recip = R(8) * (R(2) - a) / R(17);  // ~ 1 / (1 + a)
+  R eta;
+  if (a <= R(1) / R(9)) {
+    eta = (detail::log1p_small(z) + rho * recip) / R(2);
+  } else {
+    numeric::dd<R> w = numeric::two_sum(R(1), z);
+    eta = (detail::log_(w.hi) + (w.lo * d.hi + rho) * recip) / R(2);
+  }
+  return detail::copysign_<R>(eta, beta);
+}
+
+// ============================================================================================
+// speed<T>
+// ============================================================================================
+
+/// One speed magnitude 0 <= beta < 1 of a massive body, stored as beta and gamma, each as a
+/// double-word number (hi + lo), so that every view is accurate whichever quantity it was
+/// built from.  Trivially copyable; 4 * sizeof(T) bytes.
+///
+/// Named constructors validate their input through the policy (default: throw
+/// std::domain_error naming the function and the value); with a NaN-returning policy an
+/// invalid input gives a speed whose views are all NaN.  The speed of light itself is not a
+/// speed<T>: beta = 1, deficit 0, and infinite gamma, rapidity or proper speed are errors.
+template <class T>
+class speed {
+  static_assert(!std::is_integral<T>::value, "speed<T> needs a real type");
+
+ public:
+  using value_type = T;
+
+  /// Speed at rest (beta = 0).
+  speed() : b_{T(0), T(0)}, g_{T(1), T(0)} {}
+
+  // ---- named constructors ----------------------------------------------------------------
+
+  /// From beta in [0, 1).
+  template <class Policy = throw_policy>
+  static speed from_beta(T beta, const Policy& pol = Policy()) {
+    if (!(beta >= T(0) && beta < T(1)))
+      return invalid("eigenzeit::speed<%1%>::from_beta(%1%)",
+                     "beta = %1%, but it must lie in [0, 1)", beta, pol);
+    return from_beta_dd({beta, T(0)}, numeric::fast_two_sum(T(1), -beta));
+  }
+
+  /// From the deficit d = 1 - beta in (0, 1].
+  template <class Policy = throw_policy>
+  static speed from_beta_deficit(T deficit, const Policy& pol = Policy()) {
+    if (!(deficit > T(0) && deficit <= T(1)))
+      return invalid("eigenzeit::speed<%1%>::from_beta_deficit(%1%)",
+                     "1 - beta = %1%, but it must lie in (0, 1]", deficit, pol);
+    return from_beta_dd(numeric::fast_two_sum(T(1), -deficit), {deficit, T(0)});
+  }
+
+  /// From the Lorentz factor gamma in [1, inf).
+  template <class Policy = throw_policy>
+  static speed from_gamma(T gamma, const Policy& pol = Policy()) {
+    using std::isfinite;
+    if (!(gamma >= T(1)) || !isfinite(gamma))
+      return invalid("eigenzeit::speed<%1%>::from_gamma(%1%)",
+                     "gamma = %1%, but it must be finite and >= 1", gamma, pol);
+    return from_gamma_m1_dd(numeric::fast_two_sum(gamma, T(-1)), {gamma, T(0)});
+  }
+
+  /// From gamma - 1 in [0, inf).
+  template <class Policy = throw_policy>
+  static speed from_gamma_m1(T gamma_m1, const Policy& pol = Policy()) {
+    using std::isfinite;
+    if (!(gamma_m1 >= T(0)) || !isfinite(gamma_m1))
+      return invalid("eigenzeit::speed<%1%>::from_gamma_m1(%1%)",
+                     "gamma - 1 = %1%, but it must be finite and >= 0", gamma_m1, pol);
+    return from_gamma_m1_dd({gamma_m1, T(0)}, numeric::two_sum(T(1), gamma_m1));
+  }
+
+  /// From the rapidity eta = atanh(beta) in [0, inf); gamma = cosh(eta) must be finite.
+  /// Accuracy of the views: <= 2 ulp (double), since exp's rounding enters once.
+  template <class Policy = throw_policy>
+  static speed from_rapidity(T eta, const Policy& pol = Policy()) {
+    using std::isfinite;
+    if (!(eta >= T(0)) || !isfinite(eta))
+      return invalid("eigenzeit::speed<%1%>::from_rapidity(%1%)",
+                     "rapidity = %1%, but it must be finite and >= 0", eta, pol);
+    if (eta <= T(4)) {
+      // proper speed sinh(eta) = eta sum_k eta^2k / (2k+1)!: positive terms, Horner in
+      // double-word arithmetic from eta^2 (exact), error O(u^2); no exp call at all.
+      return from_proper_speed_dd(sinh_series(eta));
+    }
+    // sinh(eta) = (E - 1/E) / 2 with E = e^eta: E's rounding (~1 ulp) passes to the proper
+    // speed and gamma nearly unchanged (the 1/E term is below 4e-4 of E for eta > 4).
+    const T big = detail::exp_(eta);
+    if (!isfinite(big))
+      return invalid("eigenzeit::speed<%1%>::from_rapidity(%1%)",
+                     "rapidity = %1% gives a Lorentz factor beyond the largest finite value",
+                     eta, pol);
+    numeric::dd<T> e{big, T(0)};
+    numeric::dd<T> u = numeric::dd_add(e, numeric::dd_div(numeric::dd<T>{T(-1), T(0)}, e));
+    return from_proper_speed_dd({u.hi / 2, u.lo / 2});
+  }
+
+  /// From the proper speed u = beta * gamma in [0, inf), in units of c.
+  template <class Policy = throw_policy>
+  static speed from_proper_speed(T u, const Policy& pol = Policy()) {
+    using std::isfinite;
+    if (!(u >= T(0)) || !isfinite(u))
+      return invalid("eigenzeit::speed<%1%>::from_proper_speed(%1%)",
+                     "proper speed = %1%, but it must be finite and >= 0", u, pol);
+    return from_proper_speed_dd({u, T(0)});
+  }
+
+  /// From kinetic energy and rest energy in one unit (T_kin and m c^2): gamma - 1 = T_kin / m.
+  template <class Policy = throw_policy>
+  static speed from_kinetic_energy(T kinetic, T mass, const Policy& pol = Policy()) {
+    using std::isfinite;
+    if (!(mass > T(0)) || !isfinite(mass))
+      return invalid("eigenzeit::speed<%1%>::from_kinetic_energy(%1%, mass)",
+                     "mass = %1%, but it must be finite and > 0", mass, pol);
+    if (!(kinetic >= T(0)) || !isfinite(kinetic))
+      return invalid("eigenzeit::speed<%1%>::from_kinetic_energy(%1%, mass)",
+                     "kinetic energy = %1%, but it must be finite and >= 0", kinetic, pol);
+    numeric::dd<T> m = numeric::dd_div(numeric::dd<T>{kinetic, T(0)}, numeric::dd<T>{mass, T(0)});
+    if (!isfinite(m.hi))
+      return invalid("eigenzeit::speed<%1%>::from_kinetic_energy(%1%, mass)",
+                     "kinetic energy = %1% over the mass gives a Lorentz factor beyond the "
+                     "largest finite value", kinetic, pol);
+    if (m.hi < numeric::rescale_threshold<T>()) {
+      // K/m so small that it leaves the normal range while beta = sqrt(2 K/m) does not:
+      // form 2^(2k) K / m (exact scaling, normal), take the root, scale back by 2^-k.
+      // Dropping m^2 from m (m + 2) costs a relative m / 2, far below u here.
+      const int k = numeric::digits_v<T>;
+      numeric::dd<T> ms = numeric::dd_div(numeric::dd<T>{numeric::pow2<T>(2 * k) * kinetic, T(0)},
+                                          numeric::dd<T>{mass, T(0)});
+      numeric::dd<T> b = numeric::dd_sqrt(numeric::dd<T>{2 * ms.hi, 2 * ms.lo});
+      return speed(numeric::dd_ldexp(b, -k), add_one(m));
+    }
+    return from_gamma_m1_dd(m, add_one(m));
+  }
+
+  /// From momentum and rest energy in one unit (p c and m c^2): proper speed = p / m.
+  template <class Policy = throw_policy>
+  static speed from_momentum(T momentum, T mass, const Policy& pol = Policy()) {
+    using std::isfinite;
+    if (!(mass > T(0)) || !isfinite(mass))
+      return invalid("eigenzeit::speed<%1%>::from_momentum(%1%, mass)",
+                     "mass = %1%, but it must be finite and > 0", mass, pol);
+    if (!(momentum >= T(0)) || !isfinite(momentum))
+      return invalid("eigenzeit::speed<%1%>::from_momentum(%1%, mass)",
+                     "momentum = %1%, but it must be finite and >= 0", momentum, pol);
+    numeric::dd<T> u = numeric::dd_div(numeric::dd<T>{momentum, T(0)}, numeric::dd<T>{mass, T(0)});
+    if (!isfinite(u.hi))
+      return invalid("eigenzeit::speed<%1%>::from_momentum(%1%, mass)",
+                     "momentum = %1% over the mass gives a proper speed beyond the largest "
+                     "finite value", momentum, pol);
+    return from_proper_speed_dd(u);
+  }
+
+  // ---- views ---------------------------------------------------------------------------
+
+  /// beta = v / c.  Correctly rounded (it is the high word).
+  T beta() const { return b_.hi; }
+
+  /// 1 - beta, accurate down to the smallest normal deficit.  Accuracy: <= 1 ulp.
+  T beta_deficit() const {
+    numeric::dd<T> h = numeric::fast_two_sum(T(1), -b_.hi);
+    return h.hi + (h.lo - b_.lo);
+  }
+
+  /// gamma.  Correctly rounded (it is the high word).
+  T gamma() const { return g_.hi; }
+
+  /// gamma - 1.  Accuracy: <= 1 ulp.
+  T gamma_m1() const { return detail::minus_one(g_); }
+
+  /// 1 / gamma = sqrt(1 - beta^2).  One division and a residual step: <= 1 ulp.
+  T inv_gamma() const {
+    numeric::dd<T> s = reciprocal_gamma();
+    return s.hi + s.lo;
+  }
+
+  /// 1 - 1/gamma.  Accuracy: <= 1 ulp.
+  T dilation_fraction() const {
+    if (b_.hi * b_.hi < numeric::small_square_threshold<T>())
+      return detail::dilation_series(beta_squared());
+    numeric::dd<T> s = reciprocal_gamma();  // s.hi <= 1, so 1 - s.hi splits exactly
+    numeric::dd<T> h = numeric::fast_two_sum(T(1), -s.hi);
+    return h.hi + (h.lo - s.lo);
+  }
+
+  /// Rapidity atanh(beta) = log1p(gamma - 1 + beta gamma).  Accuracy: <= 2 ulp.
+  T rapidity() const {
+    using std::log;
+    using std::sqrt;
+    if (g_.hi > sqrt(std::numeric_limits<T>::max())) {
+      // gamma (1 + beta) could overflow: log(gamma) + log1p(beta), both well conditioned.
+      return detail::log_(g_.hi) + (detail::log1p_dd(numeric::dd<T>{b_.hi, b_.lo}) + g_.lo / g_.hi);
+    }
+    return detail::log1p_dd(numeric::dd_add(gamma_m1_dd(), proper_speed_dd()));
+  }
+
+  /// Proper speed beta * gamma, in units of c.  Accuracy: <= 1 ulp.
+  T proper_speed() const {
+    numeric::dd<T> u = proper_speed_dd();
+    return u.hi + u.lo;
+  }
+
+  /// The stored words, for code that wants to carry the extra precision further.
+  numeric::dd<T> beta_words() const { return b_; }
+  numeric::dd<T> gamma_words() const { return g_; }
+
+ private:
+  numeric::dd<T> b_;  // beta
+  numeric::dd<T> g_;  // gamma
+
+  speed(numeric::dd<T> b, numeric::dd<T> g) : b_(b), g_(g) {}
+
+  template <class Policy>
+  static speed invalid(const char* function, const char* message, T value, const Policy& pol) {
+    T nan = numeric::domain_error<T>(function, message, value, pol);
+    return speed({nan, nan}, {nan, nan});
+  }
+
+  // sinh(eta) for 0 <= eta <= 4 as a double-word number (see from_rapidity).
+  static numeric::dd<T> sinh_series(T eta) {
+    const numeric::dd<T> x = numeric::two_prod(eta, eta);
+    // Terms x^k / (2k+1)! relative to 1; stop below eps^2 (the count is found in T first).
+    const T tol = std::numeric_limits<T>::epsilon() * std::numeric_limits<T>::epsilon();
+    T term = T(1);
+    int n = 0;
+    while (n < 8 * numeric::digits_v<T> && term > tol) {
+      ++n;
+      term = term * x.hi / T((2 * n) * (2 * n + 1));
+    }
+    // Horner: p = 1 + x / ((2k)(2k+1)) p from the innermost level, then sinh = eta p.
+    numeric::dd<T> p{T(1), T(0)};
+    for (int k = n; k >= 1; --k) {
+      numeric::dd<T> q = numeric::dd_div(numeric::dd_mul(x, p),
+                                         numeric::dd<T>{T((2 * k) * (2 * k + 1)), T(0)});
+      p = numeric::dd_add(numeric::dd<T>{T(1), T(0)}, q);
+    }
+    return numeric::dd_mul(numeric::dd<T>{eta, T(0)}, p);
+  }
+
+  static numeric::dd<T> add_one(numeric::dd<T> m) {
+    return numeric::dd_add(numeric::two_sum(T(1), m.hi), numeric::dd<T>{m.lo, T(0)});
+  }
+
+  numeric::dd<T> beta_squared() const {
+    numeric::dd<T> x = numeric::two_prod(b_.hi, b_.hi);
+    return {x.hi, x.lo + 2 * b_.hi * b_.lo};
+  }
+
+  numeric::dd<T> gamma_m1_dd() const {
+    numeric::dd<T> h = numeric::fast_two_sum(g_.hi, T(-1));
+    return numeric::fast_two_sum(h.hi, h.lo + g_.lo);
+  }
+
+  numeric::dd<T> proper_speed_dd() const {
+    numeric::dd<T> p = numeric::two_prod(b_.hi, g_.hi);
+    return numeric::fast_two_sum(p.hi, p.lo + (b_.hi * g_.lo + b_.lo * g_.hi));
+  }
+
+  // 1 / (g.hi + g.lo) = y (1 + t)(1 - y g.lo) + O(u^2) with y = RN(1/g.hi), t = 1 - y g.hi exact.
+  numeric::dd<T> reciprocal_gamma() const {
+    const T y = T(1) / g_.hi;
+    const T t = -numeric::fms(y, g_.hi, T(1));
+    return {y, y * (t - y * g_.lo)};
+  }
+
+  // Builds from beta and d = 1 - beta, both exact double-word numbers.
+  static speed from_beta_dd(numeric::dd<T> b, numeric::dd<T> d) {
+    numeric::dd<T> x = numeric::two_prod(b.hi, b.hi);
+    x.lo += 2 * b.hi * b.lo;
+    if (x.hi < numeric::small_square_threshold<T>()) {
+      // gamma = 1 + m with m from the series; m's relative error ~u, so gamma - 1 keeps it.
+      const T m = detail::gamma_m1_series(x);
+      return speed(b, numeric::fast_two_sum(T(1), m));
+    }
+    // q = 1 - beta^2 = d (1 + beta) = d (2 - d) in double-word arithmetic.
+    numeric::dd<T> two_minus_d = numeric::fast_two_sum(T(2), -d.hi);
+    two_minus_d.lo -= d.lo;
+    int scale = 0;
+    if (d.hi < numeric::rescale_threshold<T>()) {
+      // Tiny deficit: scale d by 2^(2k) so the residuals of the square root stay normal;
+      // 1/sqrt then scales back by 2^k exactly.
+      scale = numeric::digits_v<T>;
+      d = numeric::dd_ldexp(d, 2 * scale);
+    }
+    numeric::dd<T> q = numeric::dd_mul(d, two_minus_d);
+    numeric::dd<T> g = detail::rsqrt_parts(q);
+    g = numeric::fast_two_sum(g.hi, g.lo);
+    if (scale != 0) g = numeric::dd_ldexp(g, scale);
+    return speed(b, g);
+  }
+
+  // Builds from m = gamma - 1 and gamma, both accurate double-word numbers.
+  static speed from_gamma_m1_dd(numeric::dd<T> m, numeric::dd<T> g) {
+    if (m.hi <= T(1)) {
+      // beta = sqrt(m (m + 2)) / gamma: products and sums of positive terms only.
+      numeric::dd<T> m2 = numeric::dd_add(m, numeric::dd<T>{T(2), T(0)});
+      numeric::dd<T> u = numeric::dd_sqrt(numeric::dd_mul(m, m2));
+      return speed(numeric::dd_div(u, g), g);
+    }
+    // Fast: s = 1/gamma <= 1/2; beta = sqrt(1 - s^2) and d = 1 - beta = s^2 / (1 + beta),
+    // then beta = 1 - d from the accurate small d (holds 1 - 1e-300 exactly in two words).
+    numeric::dd<T> s = numeric::dd_div(numeric::dd<T>{T(1), T(0)}, g);
+    numeric::dd<T> s2 = numeric::dd_mul(s, s);
+    numeric::dd<T> b0 = numeric::dd_sqrt(numeric::dd_add(numeric::dd<T>{T(1), T(0)},
+                                                         numeric::dd<T>{-s2.hi, -s2.lo}));
+    numeric::dd<T> d = numeric::dd_div(s2, numeric::dd_add(numeric::dd<T>{T(1), T(0)}, b0));
+    numeric::dd<T> b = numeric::fast_two_sum(T(1), -d.hi);
+    b = numeric::fast_two_sum(b.hi, b.lo - d.lo);
+    return speed(b, g);
+  }
+
+  static speed from_proper_speed_dd(numeric::dd<T> u) {
+    numeric::dd<T> one{T(1), T(0)};
+    if (u.hi <= T(1)) {
+      // gamma - 1 = u^2 / (1 + sqrt(1 + u^2)), no cancellation.
+      numeric::dd<T> x = numeric::dd_mul(u, u);
+      numeric::dd<T> root = numeric::dd_sqrt(numeric::dd_add(one, x));
+      numeric::dd<T> m = numeric::dd_div(x, numeric::dd_add(one, root));
+      // beta = u / sqrt(1 + u^2) directly: for tiny u, u^2 underflows but beta must not.
+      return speed(numeric::dd_div(u, root), add_one(m));
+    }
+    // gamma = u sqrt(1 + 1/u^2): no overflow for any finite u.
+    numeric::dd<T> w = numeric::dd_div(one, u);
+    numeric::dd<T> g = numeric::dd_mul(u, numeric::dd_sqrt(numeric::dd_add(one, numeric::dd_mul(w, w))));
+    numeric::dd<T> m = numeric::dd_add(g, numeric::dd<T>{T(-1), T(0)});
+    return from_gamma_m1_dd(m, g);
+  }
+};
+
+}  // namespace eigenzeit
+
+#endif

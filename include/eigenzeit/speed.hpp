@@ -100,7 +100,8 @@ EIGENZEIT_HOST_DEVICE inline T minus_one(dd<T> g) {
 
 template <class T>
 EIGENZEIT_HOST_DEVICE inline T copysign_(numeric::identity_t<T> magnitude, numeric::identity_t<T> sign_source) {
-  return sign_source < T(0) ? -magnitude : magnitude;
+  using std::signbit;
+  return signbit(sign_source) ? T(-magnitude) : magnitude;
 }
 
 /// log1p(x) for 0 <= x <= 1/4 and log(x) for x >= 1.  For built-in types these are the std::
@@ -526,9 +527,10 @@ class speed {
     two_minus_d.lo -= d.lo;
     int scale = 0;
     if (d.hi < numeric::rescale_threshold<T>()) {
-      // Tiny deficit: scale d by 2^(2k) so the residuals of the square root stay normal;
-      // 1/sqrt then scales back by 2^k exactly.
-      scale = numeric::digits_v<T>;
+      // Tiny deficit: scale d by 2^(2k), k = 2 digits, so that even the smallest subnormal
+      // becomes >= min / eps^2 and the residuals of the square root stay normal; 1/sqrt
+      // then scales back by 2^k exactly.
+      scale = 2 * numeric::digits_v<T>;
       d = numeric::dd_ldexp(d, 2 * scale);
     }
     numeric::dd<T> q = numeric::dd_mul(d, two_minus_d);

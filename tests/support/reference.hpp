@@ -33,6 +33,7 @@ struct mp {
   mp(const mp&) = delete;
   mp& operator=(const mp&) = delete;
   ~mp() { mpfr_clear(v); }
+  operator mpfr_srcptr() const { return v; }
 };
 
 using cpp50 = boost::multiprecision::cpp_bin_float_50;

@@ -56,7 +56,8 @@ namespace detail {
 /// Veltkamp splitting a = h + l with h holding the top ceil(digits/2) bits.
 template <class T>
 inline dd<T> split(T a) {
-  const T factor = pow2<T>((digits_v<T> + 1) / 2) + T(1);
+  constexpr int s = (digits_v<T> + 1) / 2;
+  const T factor = pow2<T>(s) + T(1);
   T c = factor * a;
   T h = c - (c - a);
   return {h, a - h};
@@ -77,6 +78,14 @@ EIGENZEIT_HOST_DEVICE inline T fms(T a, identity_t<T> b, identity_t<T> c) {
     return static_cast<float>(static_cast<double>(a) * static_cast<double>(b) -
                               static_cast<double>(c));
   } else {
+    // Dekker's split overflows for |a| or |b| above max / 2^(digits/2 + 1): scale the whole
+    // expression by a power of two there (exact; c is of the order of a * b in every use).
+    using std::abs;
+    using std::ldexp;
+    constexpr int sh = (digits_v<T> + 1) / 2 + 2;
+    const T limit = std::numeric_limits<T>::max() / pow2<T>(sh);
+    if (abs(a) > limit) return T(ldexp(fms(T(ldexp(a, -sh)), b, T(ldexp(c, -sh))), sh));
+    if (abs(b) > limit) return T(ldexp(fms(T(ldexp(b, -sh)), a, T(ldexp(c, -sh))), sh));
     T p = a * b;
     dd<T> as = detail::split(a);
     dd<T> bs = detail::split(b);

@@ -247,7 +247,7 @@ inline numeric::promote_t<T> rapidity(T beta_in, const Policy& pol = Policy()) {
   const R two_a = a + a;
   const R z = two_a / d.hi;
   const R rho = -numeric::fms(z, d.hi, two_a) - z * d.lo;
-  const R recip = R(8) * (R(2) - a) / R(17);  // ~ 1 / (1 + a)
+  const R recip = (R(2) - a) * (R(8) / R(17));  // ~ 1 / (1 + a); the constant folds
   R eta;
   if (a <= R(1) / R(9)) {
     eta = (detail::log1p_small(z) + rho * recip) / R(2);

@@ -84,8 +84,9 @@ EIGENZEIT_HOST_DEVICE inline T fms(T a, identity_t<T> b, identity_t<T> c) {
     using std::ldexp;
     constexpr int sh = (digits_v<T> + 1) / 2 + 2;
     const T limit = std::numeric_limits<T>::max() / pow2<T>(sh);
-    if (abs(a) > limit) return T(ldexp(fms(T(ldexp(a, -sh)), b, T(ldexp(c, -sh))), sh));
-    if (abs(b) > limit) return T(ldexp(fms(T(ldexp(b, -sh)), a, T(ldexp(c, -sh))), sh));
+    const T top = std::numeric_limits<T>::max();
+    if (abs(a) > limit && abs(a) <= top) return T(ldexp(fms(T(ldexp(a, -sh)), b, T(ldexp(c, -sh))), sh));
+    if (abs(b) > limit && abs(b) <= top) return T(ldexp(fms(T(ldexp(b, -sh)), a, T(ldexp(c, -sh))), sh));
     T p = a * b;
     dd<T> as = detail::split(a);
     dd<T> bs = detail::split(b);

@@ -1,0 +1,226 @@
+// eigenzeit: speed of the careful functions of a speed against the textbook formulas.
+// Distributed under the Boost Software License, Version 1.0 (see LICENSE).
+//
+// Every benchmark maps a batch of kBatch inputs to kBatch outputs per iteration, so the
+// report's items per second are elements per second.  Pairs share a name after the first
+// component: "careful/<name>" is the library routine, "naive/<name>" the textbook formula on
+// the same inputs, registered next to each other so both run under the same machine load.
+// tools/bench_ratios.py turns the JSON output into a table of ns per element and ratios.
+//
+// Input sets (double unless a suffix says otherwise), fixed seeds so every run sees the same:
+//   (none)        signed beta uniform in (-1, 1)
+//   /slow         signed beta with |beta| log-uniform in [1e-9, 1e-3] (walking pace up to
+//                 fast spacecraft); the careful forms take their series branch here
+//   view/...      speed<double> views; beta uniform in [0, 1), speeds built beforehand
+//   /float, /long_double   lorentz_factor and lorentz_factor_m1 in other types, uniform set
+//
+// The loops are plain "out[i] = f(in[i])" so the compiler vectorizes whatever it can; at -O2
+// std::sqrt's errno handling usually keeps both forms scalar.  Build with -mfma as well:
+// without a fused multiply-add instruction every std::fma in the careful forms is a call.
+
+#include <benchmark/benchmark.h>
+
+#include <cmath>
+#include <cstddef>
+#include <cstdint>
+#include <random>
+#include <string>
+#include <vector>
+
+#include <eigenzeit/speed.hpp>
+
+namespace {
+
+constexpr std::size_t kBatch = 4096;
+
+// ---- input sets ----------------------------------------------------------------------------
+
+/// Signed beta uniform in the open interval (-1, 1).
+template <class T>
+const std::vector<T>& uniform_signed() {
+  static const std::vector<T> data = [] {
+    std::mt19937_64 rng(20240601u);
+    std::uniform_real_distribution<long double> dist(-1.0L, 1.0L);
+    std::vector<T> v;
+    v.reserve(kBatch);
+    while (v.size() < kBatch) {
+      const T b = static_cast<T>(dist(rng));
+      if (b > T(-1) && b < T(1)) v.push_back(b);
+    }
+    return v;
+  }();
+  return data;
+}
+
+/// Signed beta with |beta| log-uniform in [1e-9, 1e-3], random sign.
+const std::vector<double>& slow_signed() {
+  static const std::vector<double> data = [] {
+    std::mt19937_64 rng(20240602u);
+    std::uniform_real_distribution<double> exponent(-9.0, -3.0);
+    std::bernoulli_distribution negative(0.5);
+    std::vector<double> v(kBatch);
+    for (double& b : v) {
+      const double m = std::pow(10.0, exponent(rng));
+      b = negative(rng) ? -m : m;
+    }
+    return v;
+  }();
+  return data;
+}
+
+/// Beta uniform in [0, 1), the domain of speed<double>::from_beta.
+const std::vector<double>& uniform_magnitude() {
+  static const std::vector<double> data = [] {
+    std::mt19937_64 rng(20240603u);
+    std::uniform_real_distribution<double> dist(0.0, 1.0);
+    std::vector<double> v;
+    v.reserve(kBatch);
+    while (v.size() < kBatch) {
+      const double b = dist(rng);
+      if (b >= 0.0 && b < 1.0) v.push_back(b);
+    }
+    return v;
+  }();
+  return data;
+}
+
+/// speed<double> built from uniform_magnitude(), element by element.
+const std::vector<eigenzeit::speed<double>>& uniform_speeds() {
+  static const std::vector<eigenzeit::speed<double>> data = [] {
+    const std::vector<double>& beta = uniform_magnitude();
+    std::vector<eigenzeit::speed<double>> v;
+    v.reserve(beta.size());
+    for (double b : beta) v.push_back(eigenzeit::speed<double>::from_beta(b));
+    return v;
+  }();
+  return data;
+}
+
+// ---- the batch loop --------------------------------------------------------------------------
+
+/// out[i] = f(in[i]) for the whole batch, once per iteration.  The input is "escaped" before
+/// each pass so the compiler cannot assume it unchanged between iterations, and the output is
+/// escaped and memory clobbered afterwards so no store is dropped.
+template <class Out, class In, class F>
+void run_batch(benchmark::State& state, const std::vector<In>& in, F f) {
+  std::vector<Out> out(in.size());
+  const In* src = in.data();
+  Out* dst = out.data();
+  const std::size_t n = in.size();
+  for (auto _ : state) {
+    benchmark::DoNotOptimize(src);
+    for (std::size_t i = 0; i < n; ++i) dst[i] = f(src[i]);
+    benchmark::DoNotOptimize(dst);
+    benchmark::ClobberMemory();
+  }
+  state.SetItemsProcessed(static_cast<std::int64_t>(state.iterations()) *
+                          static_cast<std::int64_t>(n));
+}
+
+template <class Out, class In, class F>
+void add(const std::string& name, const std::vector<In>& (*inputs)(), F f) {
+  benchmark::RegisterBenchmark(name.c_str(), [inputs, f](benchmark::State& state) {
+    run_batch<Out>(state, inputs(), f);
+  });
+}
+
+// ---- registrations -----------------------------------------------------------------------------
+
+/// The five free functions of a signed beta against their textbook forms, on one input set.
+void add_free_functions(const std::string& suffix, const std::vector<double>& (*inputs)()) {
+  namespace ez = eigenzeit;
+  add<double>("careful/lorentz_factor" + suffix, inputs,
+              [](double b) { return ez::lorentz_factor(b); });
+  add<double>("naive/lorentz_factor" + suffix, inputs,
+              [](double b) { return 1.0 / std::sqrt(1.0 - b * b); });
+
+  add<double>("careful/lorentz_factor_m1" + suffix, inputs,
+              [](double b) { return ez::lorentz_factor_m1(b); });
+  add<double>("naive/lorentz_factor_m1" + suffix, inputs,
+              [](double b) { return 1.0 / std::sqrt(1.0 - b * b) - 1.0; });
+
+  add<double>("careful/proper_speed" + suffix, inputs,
+              [](double b) { return ez::proper_speed(b); });
+  add<double>("naive/proper_speed" + suffix, inputs,
+              [](double b) { return b / std::sqrt(1.0 - b * b); });
+
+  add<double>("careful/dilation_fraction" + suffix, inputs,
+              [](double b) { return ez::dilation_fraction(b); });
+  add<double>("naive/dilation_fraction" + suffix, inputs,
+              [](double b) { return 1.0 - std::sqrt(1.0 - b * b); });
+
+  add<double>("careful/rapidity" + suffix, inputs,
+              [](double b) { return ez::rapidity(b); });
+  add<double>("naive/rapidity" + suffix, inputs,
+              [](double b) { return 0.5 * std::log((1.0 + b) / (1.0 - b)); });
+}
+
+/// The views of speed<double> (built beforehand) against the textbook formula on plain beta.
+void add_views() {
+  using S = eigenzeit::speed<double>;
+  const auto speeds = &uniform_speeds;
+  const auto betas = &uniform_magnitude;
+
+  add<double>("careful/view/beta", speeds, [](const S& s) { return s.beta(); });
+  add<double>("naive/view/beta", betas, [](double b) { return b; });
+
+  add<double>("careful/view/beta_deficit", speeds, [](const S& s) { return s.beta_deficit(); });
+  add<double>("naive/view/beta_deficit", betas, [](double b) { return 1.0 - b; });
+
+  add<double>("careful/view/gamma", speeds, [](const S& s) { return s.gamma(); });
+  add<double>("naive/view/gamma", betas, [](double b) { return 1.0 / std::sqrt(1.0 - b * b); });
+
+  add<double>("careful/view/gamma_m1", speeds, [](const S& s) { return s.gamma_m1(); });
+  add<double>("naive/view/gamma_m1", betas,
+              [](double b) { return 1.0 / std::sqrt(1.0 - b * b) - 1.0; });
+
+  add<double>("careful/view/inv_gamma", speeds, [](const S& s) { return s.inv_gamma(); });
+  add<double>("naive/view/inv_gamma", betas, [](double b) { return std::sqrt(1.0 - b * b); });
+
+  add<double>("careful/view/dilation_fraction", speeds,
+              [](const S& s) { return s.dilation_fraction(); });
+  add<double>("naive/view/dilation_fraction", betas,
+              [](double b) { return 1.0 - std::sqrt(1.0 - b * b); });
+
+  add<double>("careful/view/rapidity", speeds, [](const S& s) { return s.rapidity(); });
+  add<double>("naive/view/rapidity", betas,
+              [](double b) { return 0.5 * std::log((1.0 + b) / (1.0 - b)); });
+
+  add<double>("careful/view/proper_speed", speeds, [](const S& s) { return s.proper_speed(); });
+  add<double>("naive/view/proper_speed", betas,
+              [](double b) { return b / std::sqrt(1.0 - b * b); });
+
+  // Building the speed itself; no textbook counterpart stores anything comparable.
+  add<S>("careful/from_beta", betas, [](double b) { return S::from_beta(b); });
+  // Build and read gamma at once: what "compute gamma from beta via speed<T>" costs.
+  add<double>("careful/from_beta+gamma", betas, [](double b) { return S::from_beta(b).gamma(); });
+  add<double>("naive/from_beta+gamma", betas,
+              [](double b) { return 1.0 / std::sqrt(1.0 - b * b); });
+}
+
+/// lorentz_factor and lorentz_factor_m1 in another real type, uniform signed inputs.
+template <class T>
+void add_other_type(const std::string& suffix) {
+  namespace ez = eigenzeit;
+  const auto inputs = &uniform_signed<T>;
+  add<T>("careful/lorentz_factor" + suffix, inputs, [](T b) { return ez::lorentz_factor(b); });
+  add<T>("naive/lorentz_factor" + suffix, inputs,
+         [](T b) { return T(1) / std::sqrt(T(1) - b * b); });
+  add<T>("careful/lorentz_factor_m1" + suffix, inputs,
+         [](T b) { return ez::lorentz_factor_m1(b); });
+  add<T>("naive/lorentz_factor_m1" + suffix, inputs,
+         [](T b) { return T(1) / std::sqrt(T(1) - b * b) - T(1); });
+}
+
+int register_all() {
+  add_free_functions("", &uniform_signed<double>);
+  add_free_functions("/slow", &slow_signed);
+  add_views();
+  add_other_type<float>("/float");
+  add_other_type<long double>("/long_double");
+  return 0;
+}
+
+[[maybe_unused]] const int registered = register_all();
+
+}  // namespace

@@ -1,0 +1,151 @@
+#!/usr/bin/env python3
+# eigenzeit: summarise Google Benchmark JSON output as careful/naive ratios.
+# Distributed under the Boost Software License, Version 1.0 (see LICENSE).
+"""Pair every "careful/X" benchmark with "naive/X" from the same JSON file and print a
+Markdown table of nanoseconds per element and the ratio careful / naive.
+
+Usage: bench_ratios.py [--time cpu|real] [--batch N] FILE.json [FILE.json ...]
+
+* Each FILE is the output of a benchmark program run with --benchmark_out=FILE (JSON is the
+  default --benchmark_out_format).  The build flavour is taken from the program name in the
+  JSON context ("executable"): a name ending in "_fma" is the "-O2 -mfma" build, any other
+  the plain "-O2" build.
+* Time per element = (time per iteration, cpu_time by default or real_time with
+  --time real) / N, with N = 4096 elements per iteration (--batch to change).
+* With --benchmark_repetitions the "median" aggregate is used when the file has one;
+  otherwise the median of the individual repetitions.
+* Benchmarks without a twin get a row with the other time and the ratio left blank.
+* The last line gives, per flavour, the largest ratio and the geometric mean of the ratios.
+
+Python 3 standard library only.
+"""
+
+import argparse
+import json
+import math
+import os
+import statistics
+import sys
+
+_UNIT_TO_NS = {"ns": 1.0, "us": 1e3, "ms": 1e6, "s": 1e9}
+_PREFIXES = ("careful/", "naive/")
+
+
+def flavour_of(executable):
+    name = os.path.basename(executable or "")
+    if name.lower().endswith(".exe"):
+        name = name[:-4]
+    return "-O2 -mfma" if name.endswith("_fma") else "-O2"
+
+
+def load(path, time_key, batch):
+    """Returns (flavour, {full benchmark name: ns per element})."""
+    with open(path, encoding="utf-8") as handle:
+        data = json.load(handle)
+    flavour = flavour_of(data.get("context", {}).get("executable", ""))
+
+    medians = {}      # run name -> ns per iteration from the "median" aggregate
+    iterations = {}   # run name -> [ns per iteration of each repetition]
+    for entry in data.get("benchmarks", []):
+        if entry.get("error_occurred"):
+            print(f"warning: {path}: {entry.get('name')}: {entry.get('error_message', 'error')}",
+                  file=sys.stderr)
+            continue
+        run_name = entry.get("run_name", entry.get("name"))
+        if not run_name or not run_name.startswith(_PREFIXES):
+            continue
+        scale = _UNIT_TO_NS.get(entry.get("time_unit", "ns"))
+        if scale is None or time_key not in entry:
+            print(f"warning: {path}: {entry.get('name')}: no usable {time_key}", file=sys.stderr)
+            continue
+        ns = float(entry[time_key]) * scale
+        run_type = entry.get("run_type", "iteration")
+        if run_type == "aggregate":
+            if entry.get("aggregate_name") == "median":
+                medians[run_name] = ns
+        elif run_type == "iteration":
+            iterations.setdefault(run_name, []).append(ns)
+
+    per_element = {}
+    for run_name in set(medians) | set(iterations):
+        ns = medians.get(run_name)
+        if ns is None:
+            ns = statistics.median(iterations[run_name])
+        per_element[run_name] = ns / batch
+    return flavour, per_element
+
+
+def split_name(full):
+    for prefix in _PREFIXES:
+        if full.startswith(prefix):
+            return prefix[:-1], full[len(prefix):]
+    return None, full
+
+
+def fmt_ns(value):
+    return "" if value is None else f"{value:.3f}"
+
+
+def main(argv=None):
+    parser = argparse.ArgumentParser(
+        description="careful/naive ratios from Google Benchmark JSON files")
+    parser.add_argument("files", nargs="+", metavar="FILE.json")
+    parser.add_argument("--time", choices=("cpu", "real"), default="cpu",
+                        help="which time per iteration to use (default: cpu)")
+    parser.add_argument("--batch", type=int, default=4096,
+                        help="elements per iteration (default: 4096)")
+    args = parser.parse_args(argv)
+    time_key = f"{args.time}_time"
+
+    rows = []          # (name, flavour order, file, flavour, naive, careful, ratio)
+    ratios = {}        # flavour -> [(ratio, name)]
+    flavour_order = {"-O2": 0, "-O2 -mfma": 1}
+    for path in args.files:
+        try:
+            flavour, times = load(path, time_key, args.batch)
+        except (OSError, ValueError) as error:
+            print(f"error: {path}: {error}", file=sys.stderr)
+            return 1
+        pairs = {}
+        for full, ns in times.items():
+            kind, name = split_name(full)
+            pairs.setdefault(name, {})[kind] = ns
+        for name, both in pairs.items():
+            naive = both.get("naive")
+            careful = both.get("careful")
+            ratio = None
+            if naive is not None and careful is not None and naive > 0:
+                ratio = careful / naive
+                ratios.setdefault(flavour, []).append((ratio, name))
+            rows.append((name, flavour_order.get(flavour, 2), os.path.basename(path), flavour,
+                         naive, careful, ratio))
+
+    if not rows:
+        print("error: no careful/ or naive/ benchmarks in the given files", file=sys.stderr)
+        return 1
+
+    rows.sort(key=lambda r: (r[0], r[1], r[2]))
+    print(f"Time per element = {args.time}_time per iteration / {args.batch} "
+          f"(median of repetitions when present).")
+    print()
+    print("| file | build | name | naive ns/elem | careful ns/elem | careful/naive |")
+    print("|---|---|---|---:|---:|---:|")
+    for name, _, file_name, flavour, naive, careful, ratio in rows:
+        ratio_text = "" if ratio is None else f"{ratio:.2f}"
+        print(f"| {file_name} | {flavour} | {name} | {fmt_ns(naive)} | {fmt_ns(careful)} "
+              f"| {ratio_text} |")
+    print()
+
+    parts = []
+    for flavour in sorted(ratios, key=lambda f: (flavour_order.get(f, 2), f)):
+        values = ratios[flavour]
+        worst, worst_name = max(values)
+        geo = math.exp(sum(math.log(r) for r, _ in values) / len(values))
+        parts.append(f"{flavour}: max {worst:.2f} ({worst_name}), geometric mean {geo:.2f} "
+                     f"over {len(values)} pairs")
+    print("Summary: " + ("; ".join(parts) if parts else "no careful/naive pairs"))
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -57,7 +57,7 @@ namespace detail {
 template <class T>
 inline dd<T> split(T a) {
   constexpr int s = (digits_v<T> + 1) / 2;
-  const T factor = pow2<T>(s) + T(1);
+  static const T factor = pow2<T>(s) + T(1);  // computed once: ldexp is a library call
   T c = factor * a;
   T h = c - (c - a);
   return {h, a - h};
@@ -83,8 +83,8 @@ EIGENZEIT_HOST_DEVICE inline T fms(T a, identity_t<T> b, identity_t<T> c) {
     using std::abs;
     using std::ldexp;
     constexpr int sh = (digits_v<T> + 1) / 2 + 2;
-    const T limit = std::numeric_limits<T>::max() / pow2<T>(sh);
-    const T top = std::numeric_limits<T>::max();
+    static const T limit = std::numeric_limits<T>::max() / pow2<T>(sh);
+    static const T top = std::numeric_limits<T>::max();
     if (abs(a) > limit && abs(a) <= top) return T(ldexp(fms(T(ldexp(a, -sh)), b, T(ldexp(c, -sh))), sh));
     if (abs(b) > limit && abs(b) <= top) return T(ldexp(fms(T(ldexp(b, -sh)), a, T(ldexp(c, -sh))), sh));
     T p = a * b;

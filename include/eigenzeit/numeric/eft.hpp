@@ -38,9 +38,14 @@ struct dd {
 /// s + e = a + b exactly, s = RN(a + b).  Valid for any a, b (Knuth).
 template <class T>
 EIGENZEIT_HOST_DEVICE inline dd<T> two_sum(T a, identity_t<T> b) {
+  // One named T per operation: expression-template types (Boost.Multiprecision with
+  // et_on) would otherwise regroup the expression and break exactness.
   T s = a + b;
   T bb = s - a;
-  T e = (a - (s - bb)) + (b - bb);
+  T sb = s - bb;
+  T ea = a - sb;
+  T eb = b - bb;
+  T e = ea + eb;
   return {s, e};
 }
 
@@ -48,7 +53,8 @@ EIGENZEIT_HOST_DEVICE inline dd<T> two_sum(T a, identity_t<T> b) {
 template <class T>
 EIGENZEIT_HOST_DEVICE inline dd<T> fast_two_sum(T a, identity_t<T> b) {
   T s = a + b;
-  T e = b - (s - a);
+  T z = s - a;
+  T e = b - z;
   return {s, e};
 }
 
@@ -59,13 +65,16 @@ inline dd<T> split(T a) {
   constexpr int s = (digits_v<T> + 1) / 2;
   static const T factor = pow2<T>(s) + T(1);  // computed once: ldexp is a library call
   T c = factor * a;
-  T h = c - (c - a);
-  return {h, a - h};
+  T ca = c - a;
+  T h = c - ca;
+  T l = a - h;
+  return {h, l};
 }
 }  // namespace detail
 
-/// a * b - c with a single rounding.  Exact whenever the result is representable, which
-/// is the case for every residual this library forms (sqrt and division remainders).
+/// a * b - c, exact whenever the exact result is representable, which is the case for every
+/// residual this library forms (product errors, sqrt and division remainders).  Otherwise the
+/// result is rounded: once for double (a true fma), possibly twice for the other types.
 /// double: std::fma (one instruction where the target has it).  float: the product of two
 /// floats is exact in double, and so is the subtraction for the residuals formed here.
 /// long double and multiprecision types: Dekker's product (on x86-64 std::fma of long double
@@ -90,8 +99,16 @@ EIGENZEIT_HOST_DEVICE inline T fms(T a, identity_t<T> b, identity_t<T> c) {
     T p = a * b;
     dd<T> as = detail::split(a);
     dd<T> bs = detail::split(b);
-    T e = ((as.hi * bs.hi - p) + as.hi * bs.lo + as.lo * bs.hi) + as.lo * bs.lo;
-    return (p - c) + e;
+    T hh = as.hi * bs.hi;
+    T hl = as.hi * bs.lo;
+    T lh = as.lo * bs.hi;
+    T ll = as.lo * bs.lo;
+    T e = hh - p;
+    e = e + hl;
+    e = e + lh;
+    e = e + ll;
+    T pc = p - c;
+    return pc + e;
   }
 }
 
@@ -127,8 +144,9 @@ EIGENZEIT_HOST_DEVICE inline dd<T> dd_div(dd<T> a, dd<T> b) {
 
 template <class T>
 EIGENZEIT_HOST_DEVICE inline dd<T> dd_sqrt(dd<T> a) {
+  using std::isinf;
   using std::sqrt;
-  if (!(a.hi > T(0))) return {sqrt(a.hi), T(0)};
+  if (!(a.hi > T(0)) || isinf(a.hi)) return {sqrt(a.hi), T(0)};
   T s = sqrt(a.hi);
   T r = -fms(s, s, a.hi) + a.lo;  // a - s^2; the fms part is exact (sqrt residual)
   return fast_two_sum(s, r / (s + s));

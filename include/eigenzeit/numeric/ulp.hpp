@@ -3,8 +3,10 @@
 #ifndef EIGENZEIT_NUMERIC_ULP_HPP
 #define EIGENZEIT_NUMERIC_ULP_HPP
 
+#include <algorithm>
 #include <cmath>
 #include <cstdint>
+#include <cstdlib>
 #include <cstring>
 #include <limits>
 #include <type_traits>
@@ -27,7 +29,8 @@ inline std::int64_t ordered_bits(T x) {
 }  // namespace detail
 
 /// Number of representable values of T between a and b (0 if equal, 1 if neighbours).
-/// NaN against anything, or inf against a finite value, gives the largest int64.
+/// NaN against a number, or inf against a finite value, gives the largest int64; NaN against
+/// NaN gives 0.  Distances that do not fit in int64 saturate to the largest int64.
 template <class T>
 inline std::int64_t ulp_distance(T a, T b) {
   using std::isnan;
@@ -36,18 +39,33 @@ inline std::int64_t ulp_distance(T a, T b) {
   if (a == b) return 0;
   using std::isinf;
   if (isinf(a) || isinf(b)) return far;
-  if constexpr (std::is_same<T, float>::value) {
-    std::int64_t d = detail::ordered_bits<float, std::uint32_t>(a) -
-                     detail::ordered_bits<float, std::uint32_t>(b);
-    return d < 0 ? -d : d;
-  } else if constexpr (std::is_same<T, double>::value) {
-    std::int64_t d = detail::ordered_bits<double, std::uint64_t>(a) -
-                     detail::ordered_bits<double, std::uint64_t>(b);
-    return d < 0 ? -d : d;
+  if constexpr (std::is_same<T, float>::value || std::is_same<T, double>::value) {
+    using U = std::conditional_t<std::is_same<T, float>::value, std::uint32_t, std::uint64_t>;
+    const std::int64_t ia = detail::ordered_bits<T, U>(a);
+    const std::int64_t ib = detail::ordered_bits<T, U>(b);
+    // The difference of two such integers can exceed int64 (2.0 against -2.0 is 2^63 steps):
+    // take it in unsigned arithmetic, where it is exact, and saturate.
+    const std::uint64_t d = ia > ib ? static_cast<std::uint64_t>(ia) - static_cast<std::uint64_t>(ib)
+                                    : static_cast<std::uint64_t>(ib) - static_cast<std::uint64_t>(ia);
+    return d > static_cast<std::uint64_t>(far) ? far : static_cast<std::int64_t>(d);
   } else {
+    // Boost.Math's float_distance counts exactly, but overflows an int inside when the binary
+    // exponents are far apart (types with exponent ranges near 2^31).  A gap of more than 64
+    // binades is always beyond int64, so it saturates here before Boost is called.
     using std::abs;
-    T d = abs(boost::math::float_distance(a, b));
-    if (d > T(far / 2)) return far;
+    using std::frexp;
+    int ea = 0, eb = 0;
+    frexp(a, &ea);
+    frexp(b, &eb);
+    constexpr int lowest = std::numeric_limits<T>::has_denorm == std::denorm_present
+                               ? std::numeric_limits<T>::min_exponent - std::numeric_limits<T>::digits
+                               : std::numeric_limits<T>::min_exponent;
+    const bool through_zero = a == T(0) || b == T(0) || ((a < T(0)) != (b < T(0)));
+    const long gap = through_zero ? static_cast<long>(std::max(a == T(0) ? lowest : ea, b == T(0) ? lowest : eb)) - lowest
+                                  : std::labs(static_cast<long>(ea) - static_cast<long>(eb));
+    if (gap > 64) return far;
+    const T d = abs(boost::math::float_distance(a, b));
+    if (!(d < T(far))) return far;
     return static_cast<std::int64_t>(d);
   }
 }

@@ -130,24 +130,31 @@ EIGENZEIT_HOST_DEVICE inline T exp_(T x) {
   return T(exp(W(x)));
 }
 
-/// atanh(a + al) for 0 <= a < 1 given as a double-word number (al = 0 for an exact input).
-/// z = 2a / d with d = 1 - a split exactly; the quotient's remainder rho is exact, and
-/// log1p(z + rho/d) = log1p(z) + rho / (d (1 + z)) = log1p(z) + rho / (1 + a).  1/(1 + a) on
-/// [1, 2] is replaced by its best linear fit 8 (2 - a) / 17 (relative error <= 1/17); the
-/// correction is below u z / (1 + z), so this costs < 0.06u relative.  For z > 1/4 (a > 1/9)
-/// the same is done with log(W) for W = 1 + z split exactly, whose low word enters as
-/// W.lo / W = W.lo d / (1 + a), with the same fit.  Error: the log's (< 1 ulp) + 0.5 ulp.
-template <class T>
+/// atanh(a + al) for 0 <= a < 1 given as a double-word number (HasLow = false: al is 0).
+/// d = 1 - a is split exactly.  For a <= 1/9: eta = log1p(z) / 2 with z = 2a / d; the
+/// quotient's remainder rho is exact and log1p(z + rho/d) = log1p(z) + rho / (1 + a).
+/// Otherwise eta = log(w) / 2 with w = (1 + a) / d, 1 + a split exactly, and again
+/// log(w + rho/d) = log(w) + rho / (1 + a).  The correction is at most ~u, so 1/(1 + a) is
+/// taken from its best linear fit on [1, 2], 8 (2 - a) / 17 (error <= 1/17), refined by one
+/// Newton step (error <= 1/289): it then costs < 0.01 ulp.  Error: the library log or log1p
+/// (< 1 ulp, see log1p_small) plus 0.5 ulp for the final addition.
+template <bool HasLow, class T>
 EIGENZEIT_HOST_DEVICE inline T atanh_words(T a, T al) {
   dd<T> d = fast_two_sum(T(1), -a);
-  d = fast_two_sum(d.hi, d.lo - al);  // d.hi may be 0 when a rounds to 1: then d = -al
-  const T two_a = a + a;
-  const T z = two_a / d.hi;
-  const T rho = -fms(z, d.hi, two_a) + (2 * al - z * d.lo);
-  const T recip = (T(2) - a) * (T(8) / T(17));  // ~ 1 / (1 + a); the constant folds
-  if (a <= T(1) / T(9)) return (log1p_small(z) + rho * recip) / T(2);
-  dd<T> w = two_sum(T(1), z);
-  return (log_(w.hi) + (w.lo * d.hi + rho) * recip) / T(2);
+  if (HasLow) d = fast_two_sum(d.hi, d.lo - al);  // d.hi may be 0 when a rounds to 1
+  T recip = (T(2) - a) * (T(8) / T(17));
+  recip = recip * (T(2) - (T(1) + a) * recip);
+  if (a <= T(1) / T(9)) {
+    const T two_a = a + a;
+    const T z = two_a / d.hi;
+    const T rho = -fms(z, d.hi, two_a) + ((HasLow ? 2 * al : T(0)) - z * d.lo);
+    return (log1p_small(z) + rho * recip) / T(2);
+  }
+  dd<T> s = fast_two_sum(T(1), a);
+  if (HasLow) s.lo += al;
+  const T w = s.hi / d.hi;
+  const T rho = -fms(w, d.hi, s.hi) + (s.lo - w * d.lo);
+  return (log_(w) + rho * recip) / T(2);
 }
 
 }  // namespace detail
@@ -247,7 +254,7 @@ inline numeric::promote_t<T> rapidity(T beta_in, const Policy& pol = Policy()) {
     return numeric::domain_error<R>("eigenzeit::rapidity<%1%>(%1%)",
                                     "beta = %1%, but it must lie in the open interval (-1, 1)",
                                     beta, pol);
-  return detail::copysign_<R>(detail::atanh_words(a, R(0)), beta);
+  return detail::copysign_<R>(detail::atanh_words<false>(a, R(0)), beta);
 }
 
 // ============================================================================================
@@ -444,7 +451,7 @@ class speed {
     static const T huge = numeric::pow2<T>(std::numeric_limits<T>::max_exponent / 2 - 4);
     if (g_.hi > huge)
       return detail::log_(g_.hi) + (detail::log_(T(2)) + g_.lo / g_.hi);  // log(1 + beta) = log 2 - d/2, d < 2^-max_exponent
-    return detail::atanh_words(b_.hi, b_.lo);
+    return detail::atanh_words<true>(b_.hi, b_.lo);
   }
 
   /// Proper speed beta * gamma, in units of c.  Accuracy: <= 1 ulp.

@@ -37,6 +37,8 @@
 
 #include <eigenzeit/numeric/eft.hpp>
 
+#include "support/reference.hpp"
+
 namespace ezn = eigenzeit::numeric;
 
 namespace {
@@ -51,13 +53,7 @@ using mpfr50 = boost::multiprecision::number<boost::multiprecision::mpfr_float_b
                                              boost::multiprecision::et_off>;
 using mpfr50_et = boost::multiprecision::mpfr_float_50;
 
-struct mp {
-  mpfr_t v;
-  explicit mp(mpfr_prec_t prec) { mpfr_init2(v, prec); }
-  mp(const mp&) = delete;
-  mp& operator=(const mp&) = delete;
-  ~mp() { mpfr_clear(v); }
-};
+using ez_test::mp;  // RAII holder of one mpfr_t (tests/support/reference.hpp)
 
 /// Exact value of x in r; returns false if r's precision cannot hold it.  cpp_bin_float goes
 /// through its significand, 32 bits at a time, with frexp / ldexp / floor (all exact).

@@ -19,19 +19,15 @@
 #include <eigenzeit/numeric/series.hpp>
 #include <eigenzeit/numeric/traits.hpp>
 
+#include "support/reference.hpp"
+
 namespace ezn = eigenzeit::numeric;
 
 namespace {
 
 using cpp50 = boost::multiprecision::cpp_bin_float_50;
 
-struct mp {
-  mpfr_t v;
-  explicit mp(mpfr_prec_t prec) { mpfr_init2(v, prec); }
-  mp(const mp&) = delete;
-  mp& operator=(const mp&) = delete;
-  ~mp() { mpfr_clear(v); }
-};
+using ez_test::mp;  // RAII holder of one mpfr_t (tests/support/reference.hpp)
 
 void set_exact(mpfr_t r, float x) { REQUIRE(mpfr_set_flt(r, x, MPFR_RNDN) == 0); }
 void set_exact(mpfr_t r, double x) { REQUIRE(mpfr_set_d(r, x, MPFR_RNDN) == 0); }

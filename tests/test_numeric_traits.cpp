@@ -22,6 +22,8 @@
 
 #include <eigenzeit/numeric/traits.hpp>
 
+#include "support/reference.hpp"
+
 namespace ezn = eigenzeit::numeric;
 
 namespace {
@@ -29,14 +31,7 @@ namespace {
 using cpp50 = boost::multiprecision::cpp_bin_float_50;
 using mpfr100 = boost::multiprecision::number<boost::multiprecision::mpfr_float_backend<100>>;
 
-/// RAII holder of one mpfr_t.
-struct mp {
-  mpfr_t v;
-  explicit mp(mpfr_prec_t prec) { mpfr_init2(v, prec); }
-  mp(const mp&) = delete;
-  mp& operator=(const mp&) = delete;
-  ~mp() { mpfr_clear(v); }
-};
+using ez_test::mp;  // RAII holder of one mpfr_t (tests/support/reference.hpp)
 
 /// Exact value of x in r; returns false if r's precision cannot hold it.  Built-in types
 /// through MPFR's own setters; cpp_bin_float through its significand, taken 32 bits at a time

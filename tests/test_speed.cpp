@@ -18,6 +18,7 @@
 
 #include "data/speed_reference.hpp"
 #include "support/reference.hpp"
+#include "support/sampler.hpp"
 
 #if defined(BOOST_HAS_FLOAT128)
 #include <boost/multiprecision/float128.hpp>
@@ -25,7 +26,11 @@
 
 using eigenzeit::speed;
 using ez_test::ctor;
+using ez_test::construct;
+using ez_test::magnitude;
 using ez_test::mp;
+using ez_test::sampler;
+using ez_test::views_of;
 
 namespace {
 
@@ -39,113 +44,11 @@ const char* type_name() {
   else return "float128";
 }
 
-template <class T>
-void views_of(const speed<T>& s, T out[ez_test::n_views]) {
-  out[ez_test::v_beta] = s.beta();
-  out[ez_test::v_deficit] = s.beta_deficit();
-  out[ez_test::v_gamma] = s.gamma();
-  out[ez_test::v_gamma_m1] = s.gamma_m1();
-  out[ez_test::v_inv_gamma] = s.inv_gamma();
-  out[ez_test::v_dilation] = s.dilation_fraction();
-  out[ez_test::v_rapidity] = s.rapidity();
-  out[ez_test::v_proper_speed] = s.proper_speed();
-}
-
-template <class T>
-speed<T> construct(ctor c, T x, T y) {
-  switch (c) {
-    case ctor::beta: return speed<T>::from_beta(x);
-    case ctor::beta_deficit: return speed<T>::from_beta_deficit(x);
-    case ctor::gamma: return speed<T>::from_gamma(x);
-    case ctor::gamma_m1: return speed<T>::from_gamma_m1(x);
-    case ctor::rapidity: return speed<T>::from_rapidity(x);
-    case ctor::proper_speed: return speed<T>::from_proper_speed(x);
-    case ctor::kinetic_energy: return speed<T>::from_kinetic_energy(x, y);
-    case ctor::momentum: return speed<T>::from_momentum(x, y);
-  }
-  return speed<T>();
-}
-
 /// Allowed ulp distance to the correctly rounded value (DESIGN.md, precision contract):
 /// 1 for algebraic views of algebraically built speeds, 2 where exp or log enters.
 int tolerance(ctor c, int view) {
   if (view == ez_test::v_rapidity || c == ctor::rapidity) return 2;
   return 1;
-}
-
-// ---- input generation: log-uniform over each constructor's domain, exact in T ------------
-
-template <class T>
-struct sampler {
-  std::mt19937_64 rng;
-  explicit sampler(unsigned long long seed) : rng(seed) {}
-
-  long double uniform(long double a, long double b) {
-    return std::uniform_real_distribution<long double>(a, b)(rng);
-  }
-  long double log_uniform(long double lo, long double hi) {
-    return std::exp(uniform(std::log(lo), std::log(hi)));
-  }
-  // Magnitude limits of the sweep, clamped to what T can hold.
-  static long double tiny() {  // smallest input magnitude swept
-    return std::max<long double>(1e-300L, std::numeric_limits<T>::denorm_min());
-  }
-  // Smallest magnitude, subnormals of float and double included; long double stops at 1e-320
-  // so that the reference precision stays bounded.
-  static long double lowest() {
-    return std::max<long double>(1e-320L, std::numeric_limits<T>::denorm_min());
-  }
-  static long double huge() {
-    return std::min<long double>(1e300L, std::numeric_limits<T>::max() / 1e6L);
-  }
-  static long double max_rapidity() {
-    // cosh(eta) must stay below the largest finite T, with a margin.
-    return std::min<long double>(700.0L, std::log(static_cast<long double>(std::numeric_limits<T>::max())) - 1);
-  }
-
-  /// One input (x, y) for constructor c; y is the mass for the energy constructors.
-  void draw(ctor c, T& x, T& y) {
-    const long double eps = std::numeric_limits<T>::epsilon();
-    y = T(1);
-    const int region = static_cast<int>(rng() % 3);
-    switch (c) {
-      case ctor::beta:
-        if (region == 0) x = T(log_uniform(lowest(), 1e-4L));
-        else if (region == 1) x = T(log_uniform(1e-4L, 0.5L));
-        else x = T(1 - log_uniform(eps / 2, 0.5L));
-        if (!(x < T(1))) x = T(0.5);
-        break;
-      case ctor::beta_deficit:
-        if (region == 2) x = T(uniform(0.5L, 1.0L));
-        else x = T(log_uniform(tiny(), 0.5L));
-        break;
-      case ctor::gamma:
-        x = T(1 + log_uniform(eps, std::min<long double>(1e150L, huge())));
-        break;
-      case ctor::gamma_m1:
-        x = T(log_uniform(lowest() * 4, huge()));
-        break;
-      case ctor::rapidity:
-        x = T(log_uniform(tiny(), max_rapidity()));
-        break;
-      case ctor::proper_speed:
-        x = T(log_uniform(tiny(), huge()));
-        break;
-      case ctor::kinetic_energy:
-      case ctor::momentum: {
-        y = T(log_uniform(1e-3L, 1e6L));
-        long double r = log_uniform(tiny() * 1e6L, huge() / 1e6L);
-        x = T(r * static_cast<long double>(y));
-        break;
-      }
-    }
-  }
-};
-
-double magnitude(ctor c, long double x, long double y) {
-  if (c == ctor::kinetic_energy || c == ctor::momentum) return static_cast<double>(x / y);
-  if (x != 0 && std::fabs(x) < 1e-4900L) return 0.0;
-  return static_cast<double>(x);
 }
 
 long sample_count(long full) { return ez_test::quick() ? std::max(500L, full / 20) : full; }
@@ -161,7 +64,8 @@ void sweep_builtin(long samples, unsigned long long seed) {
               "result; 'cr' = share correctly rounded)\n",
               type_name<T>(), samples);
   for (ctor c : all_ctors) {
-    sampler<T> gen(seed + static_cast<unsigned long long>(c));
+    std::mt19937_64 engine(seed + static_cast<unsigned long long>(c));
+    sampler<T> gen(engine);
     ez_test::ulp_stats stats[ez_test::n_views];
     for (long i = 0; i < samples; ++i) {
       T x = T(0), y = T(1);
@@ -196,7 +100,8 @@ void sweep_builtin(long samples, unsigned long long seed) {
 /// Free functions of signed beta against the same reference.
 template <class T>
 void sweep_free(long samples, unsigned long long seed) {
-  sampler<T> gen(seed);
+  std::mt19937_64 engine(seed);
+  sampler<T> gen(engine);
   ez_test::ulp_stats st[5];
   const char* names[5] = {"lorentz_factor", "lorentz_factor_m1", "proper_speed",
                           "dilation_fraction", "rapidity"};
@@ -237,7 +142,8 @@ template <class T>
 void sweep_multiprecision(long samples, unsigned long long seed) {
   double worst[ez_test::n_views] = {};
   for (ctor c : all_ctors) {
-    sampler<double> gen(seed + static_cast<unsigned long long>(c));
+    std::mt19937_64 engine(seed + static_cast<unsigned long long>(c));
+    sampler<double> gen(engine);
     for (long i = 0; i < samples; ++i) {
       double xd = 0, yd = 1;
       gen.draw(c, xd, yd);
@@ -430,7 +336,8 @@ std::int64_t dist(T a, T b) {
 
 template <class T>
 void round_trips(long samples) {
-  sampler<T> gen(31);
+  std::mt19937_64 engine(31);
+  sampler<T> gen(engine);
   std::int64_t worst[8] = {};
   for (long i = 0; i < samples; ++i) {
     T x = T(0), y = T(1);
@@ -466,7 +373,8 @@ void round_trips(long samples) {
 
 template <class T>
 void identities(long samples) {
-  sampler<T> gen(41);
+  std::mt19937_64 engine(41);
+  sampler<T> gen(engine);
   for (long i = 0; i < samples; ++i) {
     T x = T(0), y = T(1);
     gen.draw(ctor::gamma_m1, x, y);
@@ -495,7 +403,8 @@ void identities(long samples) {
 
 template <class T>
 void monotonic(long samples) {
-  sampler<T> gen(51);
+  std::mt19937_64 engine(51);
+  sampler<T> gen(engine);
   std::vector<T> betas;
   for (long i = 0; i < samples; ++i) {
     T x = T(0), y = T(1);

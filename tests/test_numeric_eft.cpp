@@ -55,45 +55,7 @@ using mpfr50_et = boost::multiprecision::mpfr_float_50;
 
 using ez_test::mp;  // RAII holder of one mpfr_t (tests/support/reference.hpp)
 
-/// Exact value of x in r; returns false if r's precision cannot hold it.  cpp_bin_float goes
-/// through its significand, 32 bits at a time, with frexp / ldexp / floor (all exact).
-template <class T>
-bool set_exact(mpfr_t r, const T& x) {
-  if constexpr (std::is_same<T, float>::value) {
-    return mpfr_set_flt(r, x, MPFR_RNDN) == 0;
-  } else if constexpr (std::is_same<T, double>::value) {
-    return mpfr_set_d(r, x, MPFR_RNDN) == 0;
-  } else if constexpr (std::is_same<T, long double>::value) {
-    return mpfr_set_ld(r, x, MPFR_RNDN) == 0;
-  } else if constexpr (std::is_same<T, mpfr50>::value || std::is_same<T, mpfr50_et>::value) {
-    return mpfr_set(r, x.backend().data(), MPFR_RNDN) == 0;
-  } else {
-    using std::abs;
-    using std::floor;
-    using std::frexp;
-    using std::ldexp;
-    if (x == 0) {
-      mpfr_set_zero(r, 1);
-      return true;
-    }
-    int e = 0;
-    T f = frexp(abs(x), &e);
-    int inexact = 0;
-    long shift = 0;
-    mpfr_set_ui(r, 0, MPFR_RNDN);
-    while (f != 0) {
-      f = ldexp(f, 32);
-      shift += 32;
-      const T chunk = floor(f);
-      f -= chunk;
-      inexact |= mpfr_mul_2ui(r, r, 32, MPFR_RNDN);
-      inexact |= mpfr_add_ui(r, r, chunk.template convert_to<unsigned long>(), MPFR_RNDN);
-    }
-    inexact |= mpfr_mul_2si(r, r, e - shift, MPFR_RNDN);
-    if (x < 0) mpfr_neg(r, r, MPFR_RNDN);
-    return inexact == 0;
-  }
-}
+using ez_test::set_exact_checked;
 
 /// Whether x is ref rounded to nearest in T.  Built-in types: MPFR's own correctly rounded
 /// conversion (subnormals included).  cpp_bin_float_50 (no subnormals in the ranges used):
@@ -106,7 +68,7 @@ bool is_rn_of(const T& x, const mpfr_t ref) {
   else {
     mp r(std::numeric_limits<T>::digits), v(std::numeric_limits<T>::digits);
     mpfr_set(r.v, ref, MPFR_RNDN);
-    return set_exact(v.v, x) && mpfr_equal_p(r.v, v.v);
+    return set_exact_checked(v.v, x) && mpfr_equal_p(r.v, v.v);
   }
 }
 
@@ -286,7 +248,7 @@ TEST_CASE_TEMPLATE("two_sum: s = RN(a + b) and s + e = a + b exactly", T, float,
     T a, b;
     sum_pair<T>(rng, i % 4, a, b);
     const ezn::dd<T> r = ezn::two_sum(a, b);
-    if (!(set_exact(ma.v, a) && set_exact(mb.v, b) && set_exact(ms.v, r.hi) && set_exact(me.v, r.lo) &&
+    if (!(set_exact_checked(ma.v, a) && set_exact_checked(mb.v, b) && set_exact_checked(ms.v, r.hi) && set_exact_checked(me.v, r.lo) &&
           mpfr_add(exact.v, ma.v, mb.v, MPFR_RNDN) == 0)) {
       ref.add(show(a) + " + " + show(b));
       continue;
@@ -318,10 +280,10 @@ TEST_CASE_TEMPLATE("fast_two_sum: exact for |a| >= |b| and for a = 0", T, float,
     if (abs(a) < abs(b)) std::swap(a, b);
     if (i % 97 == 0) a = (i % 2) ? T(0) : -T(0);  // the a = 0 exception, any b
     const ezn::dd<T> r = ezn::fast_two_sum(a, b);
-    set_exact(ma.v, a);
-    set_exact(mb.v, b);
-    set_exact(ms.v, r.hi);
-    set_exact(me.v, r.lo);
+    set_exact_checked(ma.v, a);
+    set_exact_checked(mb.v, b);
+    set_exact_checked(ms.v, r.hi);
+    set_exact_checked(me.v, r.lo);
     mpfr_add(exact.v, ma.v, mb.v, MPFR_RNDN);
     mpfr_add(got.v, ms.v, me.v, MPFR_RNDN);
     if (!is_rn_of(T(a + b), exact.v)) {
@@ -374,7 +336,7 @@ TEST_CASE_TEMPLATE("two_prod: p = RN(a b) and p + e = a b exactly, away from und
     const T a = random_signed<T>(rng, ea);
     const T b = random_signed<T>(rng, s - ea);
     const ezn::dd<T> r = ezn::two_prod(a, b);
-    if (!(set_exact(ma.v, a) && set_exact(mb.v, b) && set_exact(mp_.v, r.hi) && set_exact(me.v, r.lo) &&
+    if (!(set_exact_checked(ma.v, a) && set_exact_checked(mb.v, b) && set_exact_checked(mp_.v, r.hi) && set_exact_checked(me.v, r.lo) &&
           mpfr_mul(exact.v, ma.v, mb.v, MPFR_RNDN) == 0)) {
       ref.add(show(a) + " * " + show(b));
       continue;
@@ -405,12 +367,12 @@ TEST_CASE_TEMPLATE("fms: the square-root remainder s^2 - a is exact", T, float, 
     const T a = random_magnitude<T>(rng, uniform(rng, lo, hi));
     const T s = sqrt(a);
     const T r = ezn::fms(s, s, a);
-    if (!(set_exact(ma.v, a) && set_exact(ms.v, s) && mpfr_sqr(exact.v, ms.v, MPFR_RNDN) == 0 &&
+    if (!(set_exact_checked(ma.v, a) && set_exact_checked(ms.v, s) && mpfr_sqr(exact.v, ms.v, MPFR_RNDN) == 0 &&
           mpfr_sub(exact.v, exact.v, ma.v, MPFR_RNDN) == 0)) {
       ref.add("a = " + show(a));
       continue;
     }
-    set_exact(got.v, r);
+    set_exact_checked(got.v, r);
     if (!mpfr_equal_p(got.v, exact.v)) bad.add("a = " + show(a));
     if (r != 0) ++nonzero;
   }
@@ -444,12 +406,12 @@ TEST_CASE_TEMPLATE("fms: the division remainder q b - a is exact", T, float, dou
     const T b = random_signed<T>(rng, eb);
     const T q = a / b;
     const T r = ezn::fms(q, b, a);
-    if (!(set_exact(ma.v, a) && set_exact(mb.v, b) && set_exact(mq.v, q) &&
+    if (!(set_exact_checked(ma.v, a) && set_exact_checked(mb.v, b) && set_exact_checked(mq.v, q) &&
           mpfr_mul(exact.v, mq.v, mb.v, MPFR_RNDN) == 0 && mpfr_sub(exact.v, exact.v, ma.v, MPFR_RNDN) == 0)) {
       ref.add("a = " + show(a) + ", b = " + show(b));
       continue;
     }
-    set_exact(got.v, r);
+    set_exact_checked(got.v, r);
     if (!mpfr_equal_p(got.v, exact.v)) bad.add("a = " + show(a) + ", b = " + show(b));
     if (r != 0) ++nonzero;
   }
@@ -476,9 +438,9 @@ TEST_CASE("fms<double>: a b - c rounded once, for any operands") {
     const T a = random_signed<T>(rng, ea);
     const T b = random_signed<T>(rng, eb);
     const T c = random_signed<T>(rng, ea + eb + uniform(rng, -2 * p - 4, 4));
-    set_exact(ma.v, a);
-    set_exact(mb.v, b);
-    set_exact(mc.v, c);
+    set_exact_checked(ma.v, a);
+    set_exact_checked(mb.v, b);
+    set_exact_checked(mc.v, c);
     mpfr_mul(exact.v, ma.v, mb.v, MPFR_RNDN);
     mpfr_sub(exact.v, exact.v, mc.v, MPFR_RNDN);
     if (!is_rn_of(ezn::fms(a, b, c), exact.v))
@@ -498,8 +460,8 @@ TEST_CASE("cpp_bin_float_50 addition rounds to nearest" * doctest::may_fail()) {
   const cpp50 b = -3 * ldexp(cpp50(1), -170);
   const cpp50 s = a + b;
   mp ma(400), mb(400), exact(400);
-  set_exact(ma.v, a);
-  set_exact(mb.v, b);
+  set_exact_checked(ma.v, a);
+  set_exact_checked(mb.v, b);
   mpfr_add(exact.v, ma.v, mb.v, MPFR_RNDN);
   CHECK(is_rn_of(s, exact.v));
   CHECK(s == a);
@@ -527,10 +489,10 @@ TEST_CASE("two_sum is exact on mpfr_float_50 (expression templates on)") {
     T a, b;
     sum_pair<T>(rng, i % 4, a, b);
     const ezn::dd<T> t = ezn::two_sum(a, b);
-    set_exact(ma.v, a);
-    set_exact(mb.v, b);
-    set_exact(ms.v, t.hi);
-    set_exact(me.v, t.lo);
+    set_exact_checked(ma.v, a);
+    set_exact_checked(mb.v, b);
+    set_exact_checked(ms.v, t.hi);
+    set_exact_checked(me.v, t.lo);
     mpfr_add(exact.v, ma.v, mb.v, MPFR_RNDN);
     mpfr_add(got.v, ms.v, me.v, MPFR_RNDN);
     if (!mpfr_equal_p(got.v, exact.v)) bad.add("a = " + show(a) + ", b = " + show(b));
@@ -572,8 +534,8 @@ void record(dd_stats& st, const ezn::dd<T>& got, const mpfr_t ref, const std::st
   const int p = std::numeric_limits<T>::digits;
   const mpfr_prec_t prec = mpfr_get_prec(ref) + 64;
   mp g(prec), lo(prec), d(prec);
-  set_exact(g.v, got.hi);
-  set_exact(lo.v, got.lo);
+  set_exact_checked(g.v, got.hi);
+  set_exact_checked(lo.v, got.lo);
   mpfr_add(g.v, g.v, lo.v, MPFR_RNDN);
   mpfr_sub(d.v, g.v, ref, MPFR_RNDN);
   mpfr_div(d.v, d.v, ref, MPFR_RNDN);
@@ -627,8 +589,8 @@ TEST_CASE_TEMPLATE("dd_add, dd_mul, dd_div, dd_sqrt: relative error below 8 eps^
   const int n = samples<T>(20000, 2000);
   dd_stats s_add, s_mul, s_div, s_sqrt;
   auto load = [&](mpfr_t r, const ezn::dd<T>& v) {
-    set_exact(r, v.hi);
-    set_exact(t.v, v.lo);
+    set_exact_checked(r, v.hi);
+    set_exact_checked(t.v, v.lo);
     mpfr_add(r, r, t.v, MPFR_RNDN);
   };
   for (int i = 0; i < n; ++i) {
@@ -667,8 +629,8 @@ TEST_CASE_TEMPLATE("dd_mul and dd_div: the bound holds for either sign", T, floa
   dd_stats s_mul, s_div;
   auto negate = [](ezn::dd<T> v) { return ezn::dd<T>{-v.hi, -v.lo}; };
   auto load = [&](mpfr_t r, const ezn::dd<T>& v) {
-    set_exact(r, v.hi);
-    set_exact(t.v, v.lo);
+    set_exact_checked(r, v.hi);
+    set_exact_checked(t.v, v.lo);
     mpfr_add(r, r, t.v, MPFR_RNDN);
   };
   for (int i = 0; i < n; ++i) {
@@ -723,12 +685,12 @@ TEST_CASE_TEMPLATE("dd_ldexp scales both words exactly", T, float, double, long 
     const ezn::dd<T> a = random_dd<T>(rng, uniform(rng, -span, span));
     const int e = uniform(rng, -span, span);
     const ezn::dd<T> r = ezn::dd_ldexp(a, e);
-    set_exact(x.v, a.hi);
-    set_exact(t.v, a.lo);
+    set_exact_checked(x.v, a.hi);
+    set_exact_checked(t.v, a.lo);
     mpfr_add(x.v, x.v, t.v, MPFR_RNDN);
     mpfr_mul_2si(x.v, x.v, e, MPFR_RNDN);
-    set_exact(got.v, r.hi);
-    set_exact(t.v, r.lo);
+    set_exact_checked(got.v, r.hi);
+    set_exact_checked(t.v, r.lo);
     mpfr_add(got.v, got.v, t.v, MPFR_RNDN);
     if (!mpfr_equal_p(got.v, x.v)) bad.add(show_dd(a) + " * 2^" + std::to_string(e));
   }

@@ -33,46 +33,7 @@ using mpfr100 = boost::multiprecision::number<boost::multiprecision::mpfr_float_
 
 using ez_test::mp;  // RAII holder of one mpfr_t (tests/support/reference.hpp)
 
-/// Exact value of x in r; returns false if r's precision cannot hold it.  Built-in types
-/// through MPFR's own setters; cpp_bin_float through its significand, taken 32 bits at a time
-/// with frexp / ldexp / floor (all exact); the MPFR type directly.
-template <class T>
-bool set_exact(mpfr_t r, const T& x) {
-  if constexpr (std::is_same<T, float>::value) {
-    return mpfr_set_flt(r, x, MPFR_RNDN) == 0;
-  } else if constexpr (std::is_same<T, double>::value) {
-    return mpfr_set_d(r, x, MPFR_RNDN) == 0;
-  } else if constexpr (std::is_same<T, long double>::value) {
-    return mpfr_set_ld(r, x, MPFR_RNDN) == 0;
-  } else if constexpr (std::is_same<T, mpfr100>::value) {
-    return mpfr_set(r, x.backend().data(), MPFR_RNDN) == 0;
-  } else {
-    using std::abs;
-    using std::floor;
-    using std::frexp;
-    using std::ldexp;
-    if (x == 0) {
-      mpfr_set_zero(r, x < 0 ? -1 : 1);
-      return true;
-    }
-    int e = 0;
-    T f = frexp(abs(x), &e);
-    int inexact = 0;
-    long shift = 0;
-    mpfr_set_ui(r, 0, MPFR_RNDN);
-    while (f != 0) {
-      f = ldexp(f, 32);
-      shift += 32;
-      T chunk = floor(f);
-      f -= chunk;
-      inexact |= mpfr_mul_2ui(r, r, 32, MPFR_RNDN);
-      inexact |= mpfr_add_ui(r, r, chunk.template convert_to<unsigned long>(), MPFR_RNDN);
-    }
-    inexact |= mpfr_mul_2si(r, r, e - shift, MPFR_RNDN);
-    if (x < 0) mpfr_neg(r, r, MPFR_RNDN);
-    return inexact == 0;
-  }
-}
+using ez_test::set_exact_checked;
 
 template <class T>
 std::string type_name() {
@@ -158,7 +119,7 @@ TEST_CASE_TEMPLATE("pow2 is exact over the whole exponent range", T, float, doub
   for (int e = lo; e <= hi; ++e) {
     mpfr_set_ui_2exp(want.v, 1, e, MPFR_RNDN);
     const T p = ezn::pow2<T>(e);
-    if (!set_exact(got.v, p) || !mpfr_equal_p(want.v, got.v)) {
+    if (!set_exact_checked(got.v, p) || !mpfr_equal_p(want.v, got.v)) {
       if (bad++ == 0) first_bad = e;
     }
   }
@@ -183,7 +144,7 @@ TEST_CASE_TEMPLATE("pow2 is exact for multiprecision types", T, cpp50, mpfr100) 
   auto check_one = [&](int e) {
     mpfr_set_ui_2exp(want.v, 1, e, MPFR_RNDN);
     const T p = ezn::pow2<T>(e);
-    if (!set_exact(got.v, p) || !mpfr_equal_p(want.v, got.v)) {
+    if (!set_exact_checked(got.v, p) || !mpfr_equal_p(want.v, got.v)) {
       if (bad++ == 0) first_bad = e;
     }
   };
@@ -225,8 +186,8 @@ TEST_CASE_TEMPLATE("small_square_threshold: a power of two near eps^(1/3), fourt
   const T t = ezn::small_square_threshold<T>();
   const mpfr_prec_t prec = 4 * L::digits + 64;
   mp tt(prec), eps(prec), x(prec), y(prec);
-  REQUIRE(set_exact(tt.v, t));
-  REQUIRE(set_exact(eps.v, T(L::epsilon())));
+  REQUIRE(set_exact_checked(tt.v, t));
+  REQUIRE(set_exact_checked(eps.v, T(L::epsilon())));
   INFO(type_name<T>() << ": digits " << L::digits << ", k " << k);
 
   // Exactly 2^-k.
@@ -271,15 +232,15 @@ TEST_CASE_TEMPLATE("rescale_threshold: sqrt residuals above it are normal number
   std::mt19937_64 rng(11);
   std::uniform_int_distribution<int> ex(0, 40);
   mp qq(4 * L::digits), ss(4 * L::digits), res(4 * L::digits), lmin(4 * L::digits);
-  REQUIRE(set_exact(lmin.v, (L::min)()));
+  REQUIRE(set_exact_checked(lmin.v, (L::min)()));
   int subnormal = 0;
   T worst_q = 0;
   for (int i = 0; i < n; ++i) {
     T q = std::ldexp(random_significand<T>(rng), ex(rng)) * r;  // r is a power of two: exact
     if (i == 0) q = r;
     const T s = std::sqrt(q);
-    set_exact(qq.v, q);
-    set_exact(ss.v, s);
+    set_exact_checked(qq.v, q);
+    set_exact_checked(ss.v, s);
     mpfr_sqr(res.v, ss.v, MPFR_RNDN);        // exact at 4p bits
     mpfr_sub(res.v, qq.v, res.v, MPFR_RNDN);  // exact: q and s^2 are close
     mpfr_abs(res.v, res.v, MPFR_RNDN);
@@ -296,8 +257,8 @@ TEST_CASE_TEMPLATE("rescale_threshold: sqrt residuals above it are normal number
   for (int i = 0; i < 2000; ++i) {
     const T q = std::ldexp(random_significand<T>(rng), -2 + (i % 2)) * (r * L::epsilon());
     const T s = std::sqrt(q);
-    set_exact(qq.v, q);
-    set_exact(ss.v, s);
+    set_exact_checked(qq.v, q);
+    set_exact_checked(ss.v, s);
     mpfr_sqr(res.v, ss.v, MPFR_RNDN);
     mpfr_sub(res.v, qq.v, res.v, MPFR_RNDN);
     mpfr_abs(res.v, res.v, MPFR_RNDN);

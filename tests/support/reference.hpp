@@ -45,13 +45,63 @@ inline void set_exact(mpfr_t r, float x) { mpfr_set_flt(r, x, MPFR_RNDN); }
 inline void set_exact(mpfr_t r, double x) { mpfr_set_d(r, x, MPFR_RNDN); }
 inline void set_exact(mpfr_t r, long double x) { mpfr_set_ld(r, x, MPFR_RNDN); }
 inline void set_exact(mpfr_t r, const mpfr100& x) { mpfr_set(r, x.backend().data(), MPFR_RNDN); }
+
+
+/// Whether T is a Boost.Multiprecision number on an MPFR backend (any precision, either
+/// expression-template setting): its value is then read directly.
+template <class T>
+struct is_mpfr_number : std::false_type {};
+template <unsigned D, boost::multiprecision::mpfr_allocation_type A,
+          boost::multiprecision::expression_template_option ET>
+struct is_mpfr_number<boost::multiprecision::number<boost::multiprecision::mpfr_float_backend<D, A>, ET>>
+    : std::true_type {};
+
+/// Exact value of x in r, for any tested type; returns false if r's precision cannot hold it.
+/// Built-in types through MPFR's own setters, MPFR-backed numbers directly, other types
+/// (cpp_bin_float, float128) through their significand, 32 bits at a time with frexp / ldexp /
+/// floor (all exact).
+template <class T>
+inline bool set_exact_checked(mpfr_t r, const T& x) {
+  if constexpr (std::is_same<T, float>::value) {
+    return mpfr_set_flt(r, x, MPFR_RNDN) == 0;
+  } else if constexpr (std::is_same<T, double>::value) {
+    return mpfr_set_d(r, x, MPFR_RNDN) == 0;
+  } else if constexpr (std::is_same<T, long double>::value) {
+    return mpfr_set_ld(r, x, MPFR_RNDN) == 0;
+  } else if constexpr (is_mpfr_number<T>::value) {
+    return mpfr_set(r, x.backend().data(), MPFR_RNDN) == 0;
+  } else {
+    using std::abs;
+    using std::floor;
+    using std::frexp;
+    using std::ldexp;
+    if (x == 0) {
+      mpfr_set_zero(r, x < 0 ? -1 : 1);
+      return true;
+    }
+    int e = 0;
+    T f = frexp(abs(x), &e);
+    int inexact = 0;
+    long shift = 0;
+    mpfr_set_ui(r, 0, MPFR_RNDN);
+    while (f != 0) {
+      f = ldexp(f, 32);
+      shift += 32;
+      T chunk = floor(f);
+      f -= chunk;
+      inexact |= mpfr_mul_2ui(r, r, 32, MPFR_RNDN);
+      inexact |= mpfr_add_ui(r, r, chunk.template convert_to<unsigned long>(), MPFR_RNDN);
+    }
+    inexact |= mpfr_mul_2si(r, r, e - shift, MPFR_RNDN);
+    if (x < 0) mpfr_neg(r, r, MPFR_RNDN);
+    return inexact == 0;
+  }
+}
+
 template <class T>
 inline std::enable_if_t<!std::is_floating_point<T>::value && !std::is_same<T, mpfr100>::value>
 set_exact(mpfr_t r, const T& x) {
-  // cpp_bin_float and float128: all significant digits in scientific notation, read by
-  // MPFR with correct rounding at a precision far above the type's (error << its eps).
-  std::string s = x.str(0, std::ios_base::scientific);
-  mpfr_set_str(r, s.c_str(), 10, MPFR_RNDN);
+  set_exact_checked(r, x);  // the caller's precision holds every tested type
 }
 
 /// Correct rounding of an MPFR value to a built-in type.

@@ -80,15 +80,7 @@ std::string show(const T& x) {
   return os.str();
 }
 
-template <class T>
-std::string type_name() {
-  if constexpr (std::is_same<T, float>::value) return "float";
-  else if constexpr (std::is_same<T, double>::value) return "double";
-  else if constexpr (std::is_same<T, long double>::value) return "long double";
-  else if constexpr (std::is_same<T, cpp50>::value) return "cpp_bin_float_50";
-  else if constexpr (std::is_same<T, mpfr50>::value) return "mpfr_float_backend<50> (et_off)";
-  else return "mpfr_float_50";
-}
+using ez_test::type_name;
 
 bool quick() {
   const char* q = std::getenv("EIGENZEIT_QUICK");

@@ -35,14 +35,7 @@ using ez_test::mp;  // RAII holder of one mpfr_t (tests/support/reference.hpp)
 
 using ez_test::set_exact_checked;
 
-template <class T>
-std::string type_name() {
-  if constexpr (std::is_same<T, float>::value) return "float";
-  else if constexpr (std::is_same<T, double>::value) return "double";
-  else if constexpr (std::is_same<T, long double>::value) return "long double";
-  else if constexpr (std::is_same<T, cpp50>::value) return "cpp_bin_float_50";
-  else return "mpfr_float_backend<100>";
-}
+using ez_test::type_name;
 
 /// A random value in [1, 2) with all p bits of the significand random.
 template <class T>

@@ -27,22 +27,13 @@
 using eigenzeit::speed;
 using ez_test::ctor;
 using ez_test::construct;
-using ez_test::magnitude;
 using ez_test::mp;
 using ez_test::sampler;
 using ez_test::views_of;
 
 namespace {
 
-template <class T>
-const char* type_name() {
-  if constexpr (std::is_same<T, float>::value) return "float";
-  else if constexpr (std::is_same<T, double>::value) return "double";
-  else if constexpr (std::is_same<T, long double>::value) return "long double";
-  else if constexpr (std::is_same<T, ez_test::cpp50>::value) return "cpp_bin_float_50";
-  else if constexpr (std::is_same<T, ez_test::mpfr100>::value) return "mpfr_float_100";
-  else return "float128";
-}
+using ez_test::type_name;
 
 /// Allowed ulp distance to the correctly rounded value (DESIGN.md, precision contract):
 /// 1 for algebraic views of algebraically built speeds, 2 where exp or log enters.
@@ -73,11 +64,7 @@ void sweep_builtin(long samples, unsigned long long seed) {
       const speed<T> s = construct(c, x, y);
       T got[ez_test::n_views];
       views_of(s, got);
-      ez_test::reference ref(ez_test::precision_for(magnitude(c, x, y), c, std::numeric_limits<T>::digits));
-      mp mx(ref.prec), my(ref.prec);
-      ez_test::set_exact(mx.v, x);
-      ez_test::set_exact(my.v, y);
-      ref.compute(c, mx.v, my.v);
+      const ez_test::reference ref(c, x, y, std::numeric_limits<T>::digits);
       for (int v = 0; v < ez_test::n_views; ++v)
         stats[v].add(ez_test::measure<T>(got[v], ref.val[v].v), x, y);
     }
@@ -115,11 +102,7 @@ void sweep_free(long samples, unsigned long long seed) {
     const T got[5] = {eigenzeit::lorentz_factor(b), eigenzeit::lorentz_factor_m1(b),
                       eigenzeit::proper_speed(b), eigenzeit::dilation_fraction(b),
                       eigenzeit::rapidity(b)};
-    ez_test::reference ref(ez_test::precision_for(static_cast<double>(a), ctor::beta, std::numeric_limits<T>::digits));
-    mp mx(ref.prec), my(ref.prec);
-    ez_test::set_exact(mx.v, a);
-    mpfr_set_ui(my.v, 1, MPFR_RNDN);
-    ref.compute(ctor::beta, mx.v, my.v);
+    const ez_test::reference ref(ctor::beta, a, 1, std::numeric_limits<T>::digits);
     for (int k = 0; k < 5; ++k) {
       const bool odd = (k == 2 || k == 4);  // proper speed and rapidity keep the sign
       const T g = (odd && negative) ? -got[k] : got[k];
@@ -151,11 +134,7 @@ void sweep_multiprecision(long samples, unsigned long long seed) {
       const speed<T> s = construct(c, x, y);
       T got[ez_test::n_views];
       views_of(s, got);
-      ez_test::reference ref(ez_test::precision_for(magnitude(c, xd, yd), c, std::numeric_limits<T>::digits));
-      mp mx(ref.prec), my(ref.prec);
-      ez_test::set_exact(mx.v, xd);
-      ez_test::set_exact(my.v, yd);
-      ref.compute(c, mx.v, my.v);
+      const ez_test::reference ref(c, xd, yd, std::numeric_limits<T>::digits);
       for (int v = 0; v < ez_test::n_views; ++v) {
         if (mpfr_zero_p(ref.val[v].v)) continue;
         const double e = ez_test::measure_eps(got[v], ref.val[v].v);

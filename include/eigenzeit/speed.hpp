@@ -27,7 +27,6 @@
 #include <eigenzeit/config.hpp>
 #include <eigenzeit/numeric/eft.hpp>
 #include <eigenzeit/numeric/policy.hpp>
-#include <eigenzeit/numeric/series.hpp>
 #include <eigenzeit/numeric/traits.hpp>
 #include <eigenzeit/numeric/wider.hpp>
 
@@ -40,11 +39,6 @@ using numeric::fast_two_sum;
 using numeric::fms;
 using numeric::two_prod;
 using numeric::two_sum;
-
-template <class T>
-EIGENZEIT_HOST_DEVICE inline T quiet_nan() {
-  return std::numeric_limits<T>::quiet_NaN();
-}
 
 /// gamma - 1 = sum_{k>=1} C(2k,k)/4^k x^k for x = beta^2 given as a double-word number, used
 /// for x < 2^-k (k = series_exponent_v<T>).  Terms up to x^4 are kept: the first one dropped
@@ -157,6 +151,14 @@ EIGENZEIT_HOST_DEVICE inline T atanh_words(T a, T al) {
   return (log_(w) + rho * recip) / T(2);
 }
 
+/// The domain error of every free function of beta: |beta| < 1 failed (or beta is NaN).
+template <class R, class Policy>
+inline R beta_domain_error(const char* function, R beta, const Policy& pol) {
+  return numeric::domain_error<R>(function,
+                                  "beta = %1%, but it must lie in the open interval (-1, 1)",
+                                  beta, pol);
+}
+
 }  // namespace detail
 
 // ============================================================================================
@@ -173,9 +175,7 @@ inline numeric::promote_t<T> lorentz_factor(T beta_in, const Policy& pol = Polic
   const R beta = R(beta_in);
   const R a = abs(beta);
   if (!(a < R(1)))
-    return numeric::domain_error<R>("eigenzeit::lorentz_factor<%1%>(%1%)",
-                                    "beta = %1%, but it must lie in the open interval (-1, 1)",
-                                    beta, pol);
+    return detail::beta_domain_error("eigenzeit::lorentz_factor<%1%>(%1%)", beta, pol);
   numeric::dd<R> g = detail::rsqrt_parts(detail::one_minus_square(a));
   return g.hi + g.lo;
 }
@@ -189,9 +189,7 @@ inline numeric::promote_t<T> lorentz_factor_m1(T beta_in, const Policy& pol = Po
   const R beta = R(beta_in);
   const R a = abs(beta);
   if (!(a < R(1)))
-    return numeric::domain_error<R>("eigenzeit::lorentz_factor_m1<%1%>(%1%)",
-                                    "beta = %1%, but it must lie in the open interval (-1, 1)",
-                                    beta, pol);
+    return detail::beta_domain_error("eigenzeit::lorentz_factor_m1<%1%>(%1%)", beta, pol);
   numeric::dd<R> x = detail::two_prod(a, a);
   if (x.hi < numeric::small_square_threshold<R>()) return detail::gamma_m1_series(x);
   return detail::minus_one(detail::rsqrt_parts(detail::one_minus_square(a)));
@@ -206,9 +204,7 @@ inline numeric::promote_t<T> proper_speed(T beta_in, const Policy& pol = Policy(
   const R beta = R(beta_in);
   const R a = abs(beta);
   if (!(a < R(1)))
-    return numeric::domain_error<R>("eigenzeit::proper_speed<%1%>(%1%)",
-                                    "beta = %1%, but it must lie in the open interval (-1, 1)",
-                                    beta, pol);
+    return detail::beta_domain_error("eigenzeit::proper_speed<%1%>(%1%)", beta, pol);
   numeric::dd<R> g = detail::rsqrt_parts(detail::one_minus_square(a));
   // a (y + c) with the product split exactly: error 0.5 ulp + O(u^2).
   numeric::dd<R> p = detail::two_prod(a, g.hi);
@@ -225,9 +221,7 @@ inline numeric::promote_t<T> dilation_fraction(T beta_in, const Policy& pol = Po
   const R beta = R(beta_in);
   const R a = abs(beta);
   if (!(a < R(1)))
-    return numeric::domain_error<R>("eigenzeit::dilation_fraction<%1%>(%1%)",
-                                    "beta = %1%, but it must lie in the open interval (-1, 1)",
-                                    beta, pol);
+    return detail::beta_domain_error("eigenzeit::dilation_fraction<%1%>(%1%)", beta, pol);
   numeric::dd<R> x = detail::two_prod(a, a);
   if (x.hi < numeric::small_square_threshold<R>()) return detail::dilation_series(x);
   // 1 - sqrt(q) with sqrt(q) = s + r / (2 s).  No division: 1/s is approximated by one Newton
@@ -251,9 +245,7 @@ inline numeric::promote_t<T> rapidity(T beta_in, const Policy& pol = Policy()) {
   const R beta = R(beta_in);
   const R a = abs(beta);
   if (!(a < R(1)))
-    return numeric::domain_error<R>("eigenzeit::rapidity<%1%>(%1%)",
-                                    "beta = %1%, but it must lie in the open interval (-1, 1)",
-                                    beta, pol);
+    return detail::beta_domain_error("eigenzeit::rapidity<%1%>(%1%)", beta, pol);
   return detail::copysign_<R>(detail::atanh_words<false>(a, R(0)), beta);
 }
 
@@ -287,11 +279,12 @@ class speed {
     if (!(beta >= T(0) && beta < T(1)))
       return invalid("eigenzeit::speed<%1%>::from_beta(%1%)",
                      "beta = %1%, but it must lie in [0, 1)", beta, pol);
-    const numeric::dd<T> x = numeric::two_prod(beta, beta);
-    if (x.hi < numeric::small_square_threshold<T>())
-      return speed({beta + T(0), T(0)}, numeric::fast_two_sum(T(1), detail::gamma_m1_series(x)));
-    const numeric::dd<T> g = detail::rsqrt_parts(detail::one_minus_square(beta));
-    return speed({beta, T(0)}, numeric::fast_two_sum(g.hi, g.lo));
+    // The exact input takes the short form of q = 1 - beta^2 (one_minus_square), the same as
+    // the free functions; from_beta_dd forms q from two double-word numbers.
+    const numeric::dd<T> b{beta + T(0), T(0)};  // + 0 turns -0 into +0
+    const numeric::dd<T> x = numeric::two_prod(b.hi, b.hi);
+    if (x.hi < numeric::small_square_threshold<T>()) return speed(b, gamma_from_series(x));
+    return speed(b, gamma_from_q(detail::one_minus_square(b.hi)));
   }
 
   /// From the deficit d = 1 - beta in (0, 1].
@@ -443,13 +436,13 @@ class speed {
     return h.hi + (h.lo - s.lo);
   }
 
-  /// Rapidity atanh(beta) = log1p(gamma - 1 + beta gamma).  Accuracy: <= 2 ulp.
+  /// Rapidity atanh(beta), from the stored beta words (see detail::atanh_words).
+  /// Accuracy: <= 2 ulp.
   T rapidity() const {
     // 1 - beta ~ 1/(2 gamma^2) comes exactly from the stored words and stays normal while
     // gamma <= 2^(max_exponent/2 - 4); above, log(1 + beta) = log 2 - (1 - beta)/2 to far
     // below an ulp, so eta = log(gamma) + log 2.
-    static const T huge = numeric::pow2<T>(std::numeric_limits<T>::max_exponent / 2 - 4);
-    if (g_.hi > huge)
+    if (g_.hi > numeric::pow2_const<T, std::numeric_limits<T>::max_exponent / 2 - 4>())
       return detail::log_(g_.hi) + (detail::log_(T(2)) + g_.lo / g_.hi);  // log(1 + beta) = log 2 - d/2, d < 2^-max_exponent
     return detail::atanh_words<true>(b_.hi, b_.lo);
   }
@@ -497,6 +490,18 @@ class speed {
     return numeric::dd_mul(numeric::dd<T>{eta, T(0)}, p);
   }
 
+  // gamma = 1 + m for beta^2 = x below the series threshold: m from the series has relative
+  // error ~u, and 1 + m splits exactly, so gamma - 1 keeps it.
+  static numeric::dd<T> gamma_from_series(numeric::dd<T> x) {
+    return numeric::fast_two_sum(T(1), detail::gamma_m1_series(x));
+  }
+
+  // gamma = 1 / sqrt(q) as a normalised double-word number.
+  static numeric::dd<T> gamma_from_q(numeric::dd<T> q) {
+    const numeric::dd<T> g = detail::rsqrt_parts(q);
+    return numeric::fast_two_sum(g.hi, g.lo);
+  }
+
   static numeric::dd<T> add_one(numeric::dd<T> m) {
     return numeric::dd_add(numeric::two_sum(T(1), m.hi), numeric::dd<T>{m.lo, T(0)});
   }
@@ -504,11 +509,6 @@ class speed {
   numeric::dd<T> beta_squared() const {
     numeric::dd<T> x = numeric::two_prod(b_.hi, b_.hi);
     return {x.hi, x.lo + 2 * b_.hi * b_.lo};
-  }
-
-  numeric::dd<T> gamma_m1_dd() const {
-    numeric::dd<T> h = numeric::fast_two_sum(g_.hi, T(-1));
-    return numeric::fast_two_sum(h.hi, h.lo + g_.lo);
   }
 
   numeric::dd<T> proper_speed_dd() const {
@@ -527,11 +527,7 @@ class speed {
   static speed from_beta_dd(numeric::dd<T> b, numeric::dd<T> d) {
     numeric::dd<T> x = numeric::two_prod(b.hi, b.hi);
     x.lo += 2 * b.hi * b.lo;
-    if (x.hi < numeric::small_square_threshold<T>()) {
-      // gamma = 1 + m with m from the series; m's relative error ~u, so gamma - 1 keeps it.
-      const T m = detail::gamma_m1_series(x);
-      return speed(b, numeric::fast_two_sum(T(1), m));
-    }
+    if (x.hi < numeric::small_square_threshold<T>()) return speed(b, gamma_from_series(x));
     // q = 1 - beta^2 = d (1 + beta) = d (2 - d) in double-word arithmetic.
     numeric::dd<T> two_minus_d = numeric::fast_two_sum(T(2), -d.hi);
     two_minus_d.lo -= d.lo;
@@ -543,9 +539,7 @@ class speed {
       scale = 2 * numeric::digits_v<T>;
       d = numeric::dd_ldexp(d, 2 * scale);
     }
-    numeric::dd<T> q = numeric::dd_mul(d, two_minus_d);
-    numeric::dd<T> g = detail::rsqrt_parts(q);
-    g = numeric::fast_two_sum(g.hi, g.lo);
+    numeric::dd<T> g = gamma_from_q(numeric::dd_mul(d, two_minus_d));
     if (scale != 0) g = numeric::dd_ldexp(g, scale);
     return speed(b, g);
   }

@@ -54,7 +54,26 @@ struct is_mpfr_number : std::false_type {};
 template <unsigned D, boost::multiprecision::mpfr_allocation_type A,
           boost::multiprecision::expression_template_option ET>
 struct is_mpfr_number<boost::multiprecision::number<boost::multiprecision::mpfr_float_backend<D, A>, ET>>
-    : std::true_type {};
+    : std::true_type {
+  static constexpr unsigned digits10 = D;
+  static constexpr bool expression_templates = ET == boost::multiprecision::et_on;
+};
+
+/// A readable name of each tested real type, for test output.
+template <class T>
+inline const char* type_name() {
+  if constexpr (std::is_same<T, float>::value) return "float";
+  else if constexpr (std::is_same<T, double>::value) return "double";
+  else if constexpr (std::is_same<T, long double>::value) return "long double";
+  else if constexpr (std::is_same<T, cpp50>::value) return "cpp_bin_float_50";
+  else if constexpr (is_mpfr_number<T>::value) {
+    static const std::string name = "mpfr_float_" + std::to_string(is_mpfr_number<T>::digits10) +
+                                    (is_mpfr_number<T>::expression_templates ? "" : " (et_off)");
+    return name.c_str();
+  } else {
+    return "float128";
+  }
+}
 
 /// Exact value of x in r, for any tested type; returns false if r's precision cannot hold it.
 /// Built-in types through MPFR's own setters, MPFR-backed numbers directly, other types
@@ -148,12 +167,31 @@ inline mpfr_prec_t precision_for(double x, ctor c, int type_digits) {
   return static_cast<mpfr_prec_t>(std::min(p, 8000L));
 }
 
+/// The magnitude that drives the reference precision (see precision_for): the input, or the
+/// ratio of the two inputs of the energy constructors.
+inline double magnitude(ctor c, long double x, long double y) {
+  if (c == ctor::kinetic_energy || c == ctor::momentum) return static_cast<double>(x / y);
+  if (x != 0 && std::fabs(x) < 1e-4900L) return 0.0;
+  return static_cast<double>(x);
+}
+
 /// All eight views, exact to the working precision, from one construction.
 struct reference {
   mpfr_prec_t prec;
   mp val[n_views];
   explicit reference(mpfr_prec_t p)
       : prec(p), val{mp(p), mp(p), mp(p), mp(p), mp(p), mp(p), mp(p), mp(p)} {}
+
+  /// The views for constructor c on the exact inputs x (and y, the mass of the energy
+  /// constructors; 1 otherwise), at the precision precision_for chooses for a type of
+  /// `type_digits` bits.  Every tested input (float, double, long double) is exact in long double.
+  reference(ctor c, long double x, long double y, int type_digits)
+      : reference(precision_for(magnitude(c, x, y), c, type_digits)) {
+    mp mx(prec), my(prec);
+    mpfr_set_ld(mx.v, x, MPFR_RNDN);
+    mpfr_set_ld(my.v, y, MPFR_RNDN);
+    compute(c, mx.v, my.v);
+  }
 
   /// x (and y, the mass, for the energy constructors) are exact MPFR inputs.
   void compute(ctor c, const mpfr_t x, const mpfr_t y) {

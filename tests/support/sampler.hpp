@@ -87,12 +87,6 @@ struct sampler {
   }
 };
 
-/// The magnitude that drives the reference precision (see precision_for).
-inline double magnitude(ctor c, long double x, long double y) {
-  if (two_inputs(c)) return static_cast<double>(x / y);
-  if (x != 0 && std::fabs(x) < 1e-4900L) return 0.0;
-  return static_cast<double>(x);
-}
 
 template <class T>
 inline eigenzeit::speed<T> construct(ctor c, T x, T y) {

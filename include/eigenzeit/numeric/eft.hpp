@@ -59,38 +59,10 @@ EIGENZEIT_HOST_DEVICE inline dd<T> fast_two_sum(T a, identity_t<T> b) {
 }
 
 namespace detail {
-/// 2^ceil(digits/2) + 1, Veltkamp's splitting constant; a compile-time constant for the
-/// built-in types (ldexp is a library call), computed once for the others.
-template <class T>
-inline T split_factor() {
-  constexpr int s = (digits_v<T> + 1) / 2;
-  if constexpr (std::is_floating_point<T>::value) {
-    static_assert(s < 64, "built-in type wider than expected");
-    constexpr T factor = T(static_cast<unsigned long long>(1) << s) + T(1);
-    return factor;
-  } else {
-    static const T factor = pow2<T>(s) + T(1);
-    return factor;
-  }
-}
-
-/// max / 2^k: above it Dekker's split of a factor would overflow (see fms).
-template <class T, int k>
-inline T split_limit() {
-  if constexpr (std::is_floating_point<T>::value) {
-    static_assert(k < 64, "shift too wide");
-    constexpr T limit = std::numeric_limits<T>::max() / T(static_cast<unsigned long long>(1) << k);
-    return limit;
-  } else {
-    static const T limit = std::numeric_limits<T>::max() / pow2<T>(k);
-    return limit;
-  }
-}
-
 /// Veltkamp splitting a = h + l with h holding the top ceil(digits/2) bits.
 template <class T>
 inline dd<T> split(T a) {
-  const T factor = split_factor<T>();
+  const T factor = pow2_const<T, (digits_v<T> + 1) / 2>() + T(1);
   T c = factor * a;
   T ca = c - a;
   T h = c - ca;
@@ -119,7 +91,7 @@ EIGENZEIT_HOST_DEVICE inline T fms(T a, identity_t<T> b, identity_t<T> c) {
     using std::abs;
     using std::ldexp;
     constexpr int sh = (digits_v<T> + 1) / 2 + 2;
-    const T limit = detail::split_limit<T, sh>();
+    const T limit = std::numeric_limits<T>::max() / pow2_const<T, sh>();
     const T top = std::numeric_limits<T>::max();
     if (abs(a) > limit && abs(a) <= top) return T(ldexp(fms(T(ldexp(a, -sh)), b, T(ldexp(c, -sh))), sh));
     if (abs(b) > limit && abs(b) <= top) return T(ldexp(fms(T(ldexp(b, -sh)), a, T(ldexp(c, -sh))), sh));

@@ -39,6 +39,24 @@ struct wider {
 template <class T>
 using wider_t = typename wider<T>::type;
 
+/// 2^k in T, computed once: a compile-time constant for the built-in types (where pow2 would
+/// be a call to ldexp on every use), a function-local static for the others.  For the
+/// thresholds and splitting constants that sit on hot paths.
+template <class T, int k>
+inline T pow2_const() {
+  if constexpr (std::is_floating_point<T>::value) {
+    constexpr T value = [] {
+      T r = T(1);
+      for (int i = 0; i < (k < 0 ? -k : k); ++i) r = k < 0 ? r / 2 : r * 2;
+      return r;
+    }();
+    return value;
+  } else {
+    static const T value = pow2<T>(k);
+    return value;
+  }
+}
+
 /// Binary digits of the significand of T (53 for double).
 template <class T>
 inline constexpr int digits_v = std::numeric_limits<T>::digits;
@@ -53,7 +71,7 @@ inline constexpr int series_exponent_v = (digits_v<T> - 1) / 3 + 1;
 /// The threshold itself: x < small_square_threshold<T>() selects the series.
 template <class T>
 inline T small_square_threshold() {
-  return pow2<T>(-series_exponent_v<T>);
+  return pow2_const<T, -series_exponent_v<T>>();
 }
 
 /// Below this value q = 1 - beta^2 is rescaled before its square root is refined: the

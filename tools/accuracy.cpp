@@ -13,10 +13,8 @@
 //   --threads K   worker threads (default: std::thread::hardware_concurrency()).  Thread i
 //                 draws from its own std::mt19937_64 seeded with S + i; the statistics are
 //                 merged at the end.  A run is reproducible for the same N, K, S and types
-//                 with the same binary; g++ and clang++ builds draw slightly different
-//                 energy-constructor inputs (the copied sampler's long double log/exp of
-//                 constants is folded differently at compile time), so their tables differ
-//                 in the last digits.
+//                 (the sampler, tests/support/sampler.hpp, keeps its logs out of
+//                 compile-time folding, so builds with other flags draw the same inputs).
 //   --csv FILE    one row per type / constructor-or-function / view / flavour (careful|naive).
 //   --markdown FILE  compact tables: type, quantity, max ulp, mean ulp, share correctly
 //                 rounded; for the free functions also the naive formula's max ulp.

@@ -29,7 +29,11 @@ struct sampler {
     return std::uniform_real_distribution<long double>(a, b)(rng);
   }
   long double log_uniform(long double lo, long double hi) {
-    return std::exp(uniform(std::log(lo), std::log(hi)));
+    // The bounds pass through volatile so that log is always the run-time logl: with constant
+    // bounds the compiler may fold log() at compile time (correctly rounded) or not, depending
+    // on inlining, and the drawn inputs would then differ from one build to the next.
+    volatile long double vlo = lo, vhi = hi;
+    return std::exp(uniform(std::log(vlo), std::log(vhi)));
   }
   // Magnitude limits of the sweep, clamped to what T can hold.
   static long double tiny() {  // smallest input magnitude swept

@@ -11,6 +11,7 @@
 #include <eigenzeit/numeric/policy.hpp>
 #include <eigenzeit/numeric/ulp.hpp>
 #include <eigenzeit/numeric/wider.hpp>
+#include <eigenzeit/constants.hpp>
 #include <eigenzeit/speed.hpp>
 
 #endif

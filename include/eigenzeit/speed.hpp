@@ -26,7 +26,9 @@
 
 #include <eigenzeit/config.hpp>
 #include <eigenzeit/numeric/eft.hpp>
+#include <eigenzeit/numeric/ladder.hpp>
 #include <eigenzeit/numeric/policy.hpp>
+#include <eigenzeit/numeric/rounding.hpp>
 #include <eigenzeit/numeric/traits.hpp>
 #include <eigenzeit/numeric/wider.hpp>
 
@@ -46,16 +48,24 @@ using numeric::two_sum;
 /// stays below u/8.  The leading term x/2 is exact; the tail (< x/2 * 0.76 x) carries
 /// relative error ~3u, i.e. < 3u x: the result is within 0.5 ulp + 3u 2^-k of the truth.
 template <class T>
-EIGENZEIT_HOST_DEVICE inline T gamma_m1_series(dd<T> x) {
+EIGENZEIT_HOST_DEVICE inline T gamma_m1_series_low(dd<T> x) {
   const T tail = x.hi * x.hi * (T(3) / 8 + x.hi * (T(5) / 16 + x.hi * (T(35) / 128)));
-  return x.hi / 2 + (x.lo / 2 + tail);
+  return x.lo / 2 + tail;
+}
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T gamma_m1_series(dd<T> x) {
+  return x.hi / 2 + gamma_m1_series_low(x);
 }
 
 /// 1 - sqrt(1 - x) = x/2 + x^2/8 + x^3/16 + 5x^4/128 + ..., same range and error argument.
 template <class T>
-EIGENZEIT_HOST_DEVICE inline T dilation_series(dd<T> x) {
+EIGENZEIT_HOST_DEVICE inline T dilation_series_low(dd<T> x) {
   const T tail = x.hi * x.hi * (T(1) / 8 + x.hi * (T(1) / 16 + x.hi * (T(5) / 128)));
-  return x.hi / 2 + (x.lo / 2 + tail);
+  return x.lo / 2 + tail;
+}
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T dilation_series(dd<T> x) {
+  return x.hi / 2 + dilation_series_low(x);
 }
 
 /// q = 1 - a^2 = (1 - a)(1 + a) for 0 <= a < 1, as a double-word number with relative error
@@ -151,6 +161,98 @@ EIGENZEIT_HOST_DEVICE inline T atanh_words(T a, T al) {
   return (log_(w) + rho * recip) / T(2);
 }
 
+// ---- the correctly rounded mode (numeric/rounding.hpp) ------------------------------------
+// Each careful form below ends in one rounding of an unevaluated sum hi + lo.  In the
+// correctly rounded mode that sum is kept, with a bound on its error; where the bound leaves
+// the rounding open the routine is evaluated again up the widening ladder.  The bounds are
+// c u^2 times the result's scale, with c a power of two at least 4x the error analysis beside
+// each form, twice it for the series (tests/test_speed_rounded.cpp measures the sums against
+// MPFR and checks that the error stays below a quarter of the bound).
+
+/// Relative error of the 4-term series of gamma - 1 and of 1 - sqrt(1 - x), before the final
+/// rounding, for x = beta^2 < 2^-k: truncation <= x^4 / 2, the tail's roundings and its
+/// neglect of x.lo <= 3.2 u x, the last addition u^2.  Bound: twice that, 2 x^4 + 8 u x + 4 u^2.
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T series_error(T x) {
+  const T u = numeric::pow2_const<T, -std::numeric_limits<T>::digits>();
+  const T x2 = x * x;
+  return 2 * x2 * x2 + 8 * u * x + 4 * u * u;
+}
+
+/// gamma of |beta| = a as hi + lo (= rsqrt_parts) with its error bound (absolute): q's 3 u^2
+/// halved, the dropped t^2, t r and r^2 terms (<= 4 u^2) and the correction's four roundings
+/// (<= 8 u^2) make <= 16 u^2 gamma; bound 64 u^2 gamma.
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T gamma_parts(T a, dd<T>& parts) {
+  parts = rsqrt_parts(one_minus_square(a));
+  return numeric::relative_u2<T, 6>() * parts.hi;
+}
+
+/// beta gamma of |beta| = a as hi + lo with its error bound (absolute): gamma's 16 u^2 times a,
+/// plus the roundings of a c and of the low sum (4 u^2 a gamma); bound 128 u^2 a gamma.
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T proper_speed_parts(T a, dd<T>& parts) {
+  const dd<T> g = rsqrt_parts(one_minus_square(a));
+  const dd<T> p = two_prod(a, g.hi);
+  parts = {p.hi, p.lo + a * g.lo};
+  return numeric::relative_u2<T, 7>() * p.hi;
+}
+
+/// gamma - 1 of |beta| = a as hi + lo with its error bound (absolute), see lorentz_factor_m1.
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T gamma_m1_parts(T a, dd<T>& parts) {
+  const dd<T> x = two_prod(a, a);
+  if (x.hi < numeric::small_square_threshold<T>()) {
+    parts = {x.hi / 2, gamma_m1_series_low(x)};
+    return x.hi * series_error(x.hi);
+  }
+  const dd<T> g = rsqrt_parts(one_minus_square(a));
+  const dd<T> h = fast_two_sum(g.hi, T(-1));
+  parts = {h.hi, h.lo + g.lo};
+  return numeric::relative_u2<T, 7>() * g.hi;
+}
+
+/// 1 - sqrt(1 - a^2) as hi + lo with its error bound (absolute), see dilation_fraction.  The
+/// closed form here divides by s instead of taking dilation_fraction's division-free
+/// reciprocal (whose error reaches 0.27 u), so that the correction keeps O(u^2).
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T dilation_parts(T a, dd<T>& parts) {
+  using std::sqrt;
+  const dd<T> x = two_prod(a, a);
+  if (x.hi < numeric::small_square_threshold<T>()) {
+    parts = {x.hi / 2, dilation_series_low(x)};
+    return x.hi * series_error(x.hi);
+  }
+  const dd<T> q = one_minus_square(a);
+  const T s = sqrt(q.hi);
+  const T r = -fms(s, s, q.hi) + q.lo;
+  const dd<T> h = fast_two_sum(T(1), -s);
+  parts = {h.hi, h.lo - T(0.5) * r / s};
+  return numeric::relative_u2<T, 4>();  // absolute: the error is <= 6 u^2 and 1 - s < 1
+}
+
+/// sqrt(1 - a^2) = 1/gamma as hi + lo: s + r / (2 s), error <= 2.5 u^2 s (q's 3 u^2 halved, the
+/// dropped r^2 / (8 s^3), the correction's roundings).
+template <class T>
+EIGENZEIT_HOST_DEVICE inline T inv_gamma_parts(T a, dd<T>& parts) {
+  using std::sqrt;
+  const dd<T> q = one_minus_square(a);
+  const T s = sqrt(q.hi);
+  const T r = -fms(s, s, q.hi) + q.lo;
+  parts = {s, T(0.5) * r / s};
+  return numeric::relative_u2<T, 4>() * s;
+}
+
+/// The correctly rounded mode's last step: `parts` within `err` of the exact result; if that
+/// does not decide the rounding, climb the ladder with fallback(type_tag<W>) -> result in W.
+template <class T, class Fallback, class Policy>
+inline T decide(dd<T> parts, T err, const Fallback& fallback, const char* function, T input,
+                const Policy& pol) {
+  T out;
+  if (numeric::try_decide(parts, err, out)) return out;
+  return numeric::climb_ladder<T>(fallback, function, input, numeric::error_policy_of(pol));
+}
+
 /// The domain error of every free function of beta: |beta| < 1 failed (or beta is NaN).
 template <class R, class Policy>
 inline R beta_domain_error(const char* function, R beta, const Policy& pol) {
@@ -165,6 +267,11 @@ inline R beta_domain_error(const char* function, R beta, const Policy& pol) {
 // Free functions of a signed beta in (-1, 1)
 // ============================================================================================
 
+// Every free function takes an optional policy argument: a Boost.Math error policy
+// (throw_policy, nan_policy, errno_policy), or eigenzeit::correctly_rounded (of type
+// correctly_rounded_policy<ErrorPolicy>) for the correctly rounded result: the fast path when
+// its error bound decides the rounding, the widening ladder otherwise (numeric/rounding.hpp).
+
 /// Lorentz factor gamma = 1 / sqrt(1 - beta^2).
 /// Domain: -1 < beta < 1; otherwise (and for NaN) a domain error through the policy.
 /// Accuracy: <= 1 ulp (measured max 0.5x ulp, double; see README for the table).
@@ -175,8 +282,19 @@ inline numeric::promote_t<T> lorentz_factor(T beta_in, const Policy& pol = Polic
   const R beta = R(beta_in);
   const R a = abs(beta);
   if (!(a < R(1)))
-    return detail::beta_domain_error("eigenzeit::lorentz_factor<%1%>(%1%)", beta, pol);
-  numeric::dd<R> g = detail::rsqrt_parts(detail::one_minus_square(a));
+    return detail::beta_domain_error("eigenzeit::lorentz_factor<%1%>(%1%)", beta,
+                                     numeric::error_policy_of(pol));
+  numeric::dd<R> g;
+  const R err = detail::gamma_parts(a, g);
+  if constexpr (numeric::is_correctly_rounded_v<Policy>) {
+    return detail::decide(g, err,
+                          [a](auto tag) {
+                            using W = typename decltype(tag)::type;
+                            return lorentz_factor(W(a));
+                          },
+                          "eigenzeit::lorentz_factor<%1%>(%1%)", beta, pol);
+  }
+  (void)err;
   return g.hi + g.lo;
 }
 
@@ -189,7 +307,18 @@ inline numeric::promote_t<T> lorentz_factor_m1(T beta_in, const Policy& pol = Po
   const R beta = R(beta_in);
   const R a = abs(beta);
   if (!(a < R(1)))
-    return detail::beta_domain_error("eigenzeit::lorentz_factor_m1<%1%>(%1%)", beta, pol);
+    return detail::beta_domain_error("eigenzeit::lorentz_factor_m1<%1%>(%1%)", beta,
+                                     numeric::error_policy_of(pol));
+  if constexpr (numeric::is_correctly_rounded_v<Policy>) {
+    numeric::dd<R> parts;
+    const R err = detail::gamma_m1_parts(a, parts);
+    return detail::decide(parts, err,
+                          [a](auto tag) {
+                            using W = typename decltype(tag)::type;
+                            return lorentz_factor_m1(W(a));
+                          },
+                          "eigenzeit::lorentz_factor_m1<%1%>(%1%)", beta, pol);
+  }
   numeric::dd<R> x = detail::two_prod(a, a);
   if (x.hi < numeric::small_square_threshold<R>()) return detail::gamma_m1_series(x);
   return detail::minus_one(detail::rsqrt_parts(detail::one_minus_square(a)));
@@ -204,11 +333,23 @@ inline numeric::promote_t<T> proper_speed(T beta_in, const Policy& pol = Policy(
   const R beta = R(beta_in);
   const R a = abs(beta);
   if (!(a < R(1)))
-    return detail::beta_domain_error("eigenzeit::proper_speed<%1%>(%1%)", beta, pol);
-  numeric::dd<R> g = detail::rsqrt_parts(detail::one_minus_square(a));
+    return detail::beta_domain_error("eigenzeit::proper_speed<%1%>(%1%)", beta,
+                                     numeric::error_policy_of(pol));
   // a (y + c) with the product split exactly: error 0.5 ulp + O(u^2).
-  numeric::dd<R> p = detail::two_prod(a, g.hi);
-  return detail::copysign_<R>(p.hi + (p.lo + a * g.lo), beta);
+  numeric::dd<R> p;
+  const R err = detail::proper_speed_parts(a, p);
+  if constexpr (numeric::is_correctly_rounded_v<Policy>) {
+    return detail::copysign_<R>(
+        detail::decide(p, err,
+                       [a](auto tag) {
+                         using W = typename decltype(tag)::type;
+                         return proper_speed(W(a));
+                       },
+                       "eigenzeit::proper_speed<%1%>(%1%)", beta, pol),
+        beta);
+  }
+  (void)err;
+  return detail::copysign_<R>(p.hi + p.lo, beta);
 }
 
 /// Fraction of coordinate time a moving clock loses: 1 - 1/gamma = 1 - sqrt(1 - beta^2).
@@ -221,7 +362,18 @@ inline numeric::promote_t<T> dilation_fraction(T beta_in, const Policy& pol = Po
   const R beta = R(beta_in);
   const R a = abs(beta);
   if (!(a < R(1)))
-    return detail::beta_domain_error("eigenzeit::dilation_fraction<%1%>(%1%)", beta, pol);
+    return detail::beta_domain_error("eigenzeit::dilation_fraction<%1%>(%1%)", beta,
+                                     numeric::error_policy_of(pol));
+  if constexpr (numeric::is_correctly_rounded_v<Policy>) {
+    numeric::dd<R> parts;
+    const R err = detail::dilation_parts(a, parts);
+    return detail::decide(parts, err,
+                          [a](auto tag) {
+                            using W = typename decltype(tag)::type;
+                            return dilation_fraction(W(a));
+                          },
+                          "eigenzeit::dilation_fraction<%1%>(%1%)", beta, pol);
+  }
   numeric::dd<R> x = detail::two_prod(a, a);
   if (x.hi < numeric::small_square_threshold<R>()) return detail::dilation_series(x);
   // 1 - sqrt(q) with sqrt(q) = s + r / (2 s).  No division: 1/s is approximated by one Newton
@@ -237,7 +389,9 @@ inline numeric::promote_t<T> dilation_fraction(T beta_in, const Policy& pol = Po
 }
 
 /// Rapidity eta = atanh(beta) = log1p(2 beta / (1 - beta)) / 2; keeps the sign of beta.
-/// Domain: -1 < beta < 1.  Accuracy: <= 2 ulp (double; measured max 1.1 ulp).
+/// Domain: -1 < beta < 1.  Accuracy: <= 2 ulp (double; measured max 1.1 ulp).  In the
+/// correctly rounded mode it is evaluated on the ladder from the first wider rung on, since
+/// the library log of T is itself only good to about an ulp.
 template <class T, class Policy = throw_policy>
 inline numeric::promote_t<T> rapidity(T beta_in, const Policy& pol = Policy()) {
   using R = numeric::promote_t<T>;
@@ -245,13 +399,31 @@ inline numeric::promote_t<T> rapidity(T beta_in, const Policy& pol = Policy()) {
   const R beta = R(beta_in);
   const R a = abs(beta);
   if (!(a < R(1)))
-    return detail::beta_domain_error("eigenzeit::rapidity<%1%>(%1%)", beta, pol);
+    return detail::beta_domain_error("eigenzeit::rapidity<%1%>(%1%)", beta,
+                                     numeric::error_policy_of(pol));
+  if constexpr (numeric::is_correctly_rounded_v<Policy>) {
+    if (a == 0) return beta;
+    return detail::copysign_<R>(
+        numeric::climb_ladder<R>(
+            [a](auto tag) {
+              using W = typename decltype(tag)::type;
+              return rapidity(W(a));
+            },
+            "eigenzeit::rapidity<%1%>(%1%)", beta, numeric::error_policy_of(pol)),
+        beta);
+  }
   return detail::copysign_<R>(detail::atanh_words<false>(a, R(0)), beta);
 }
 
 // ============================================================================================
 // speed<T>
 // ============================================================================================
+
+/// Which named constructor a speed came from (rounded_speed keeps it with the input).
+enum class speed_origin { beta, beta_deficit, gamma, gamma_m1, rapidity, proper_speed, kinetic_energy, momentum };
+
+template <class T, class ErrorPolicy = throw_policy>
+class rounded_speed;
 
 /// One speed magnitude 0 <= beta < 1 of a massive body, stored as beta and gamma, each as a
 /// double-word number (hi + lo), so that every view is accurate whichever quantity it was
@@ -402,6 +574,44 @@ class speed {
                      "momentum = %1% over the mass gives a proper speed beyond the largest "
                      "finite value", momentum, pol);
     return from_proper_speed_dd(u);
+  }
+
+  // ---- the same constructors in the correctly rounded mode --------------------------------
+  // Given eigenzeit::correctly_rounded as the policy, each named constructor returns a
+  // rounded_speed<T>: the same speed, and the input it came from, so that every view can be
+  // returned correctly rounded (see rounded_speed below).
+
+  template <class E>
+  static rounded_speed<T, E> from_beta(T beta, const correctly_rounded_policy<E>&) {
+    return {from_beta(beta, E()), speed_origin::beta, beta, T(0)};
+  }
+  template <class E>
+  static rounded_speed<T, E> from_beta_deficit(T deficit, const correctly_rounded_policy<E>&) {
+    return {from_beta_deficit(deficit, E()), speed_origin::beta_deficit, deficit, T(0)};
+  }
+  template <class E>
+  static rounded_speed<T, E> from_gamma(T gamma, const correctly_rounded_policy<E>&) {
+    return {from_gamma(gamma, E()), speed_origin::gamma, gamma, T(0)};
+  }
+  template <class E>
+  static rounded_speed<T, E> from_gamma_m1(T gamma_m1, const correctly_rounded_policy<E>&) {
+    return {from_gamma_m1(gamma_m1, E()), speed_origin::gamma_m1, gamma_m1, T(0)};
+  }
+  template <class E>
+  static rounded_speed<T, E> from_rapidity(T eta, const correctly_rounded_policy<E>&) {
+    return {from_rapidity(eta, E()), speed_origin::rapidity, eta, T(0)};
+  }
+  template <class E>
+  static rounded_speed<T, E> from_proper_speed(T u, const correctly_rounded_policy<E>&) {
+    return {from_proper_speed(u, E()), speed_origin::proper_speed, u, T(0)};
+  }
+  template <class E>
+  static rounded_speed<T, E> from_kinetic_energy(T kinetic, T mass, const correctly_rounded_policy<E>&) {
+    return {from_kinetic_energy(kinetic, mass, E()), speed_origin::kinetic_energy, kinetic, mass};
+  }
+  template <class E>
+  static rounded_speed<T, E> from_momentum(T momentum, T mass, const correctly_rounded_policy<E>&) {
+    return {from_momentum(momentum, mass, E()), speed_origin::momentum, momentum, mass};
   }
 
   // ---- views ---------------------------------------------------------------------------
@@ -579,6 +789,158 @@ class speed {
     numeric::dd<T> g = numeric::dd_mul(u, numeric::dd_sqrt(numeric::dd_add(one, numeric::dd_mul(w, w))));
     numeric::dd<T> m = numeric::dd_add(g, numeric::dd<T>{T(-1), T(0)});
     return from_gamma_m1_dd(m, g);
+  }
+};
+
+// ============================================================================================
+// rounded_speed<T>: the correctly rounded mode of speed<T>
+// ============================================================================================
+
+/// The views of one speed, correctly rounded.  Made by the named constructors of speed<T>
+/// given eigenzeit::correctly_rounded (or correctly_rounded_policy<ErrorPolicy>) as the
+/// policy; ErrorPolicy reports the (not expected) case of a rounding that the widest rung
+/// cannot decide.  It keeps the speed<T> and the input it
+/// came from (so 4 sizeof(T) + 2 sizeof(T) + the origin tag; 56 bytes for double).
+///
+/// Each view first tries a fast path from the input, where an exact or O(u^2) form exists for
+/// that constructor (the views of from_beta, the input view of every constructor and its exact
+/// neighbours: 1 - beta from beta, gamma - 1 from gamma, gamma from gamma - 1, the quotients
+/// of the energy constructors).  Otherwise, and where the fast path's bound leaves the
+/// rounding open, the speed is built again from the same input on the next wider type of the
+/// ladder (long double for double, double for float) and the view rounded back, climbing on
+/// until the rounding is decided (numeric/rounding.hpp).  The fallback therefore costs one
+/// construction and one view in the wider type.
+template <class T, class ErrorPolicy>
+class rounded_speed {
+ public:
+  using value_type = T;
+
+  /// The views, each correctly rounded (ties to even).
+  T beta() const { return view(kind::beta); }
+  T beta_deficit() const { return view(kind::beta_deficit); }
+  T gamma() const { return view(kind::gamma); }
+  T gamma_m1() const { return view(kind::gamma_m1); }
+  T inv_gamma() const { return view(kind::inv_gamma); }
+  T dilation_fraction() const { return view(kind::dilation_fraction); }
+  T rapidity() const { return view(kind::rapidity); }
+  T proper_speed() const { return view(kind::proper_speed); }
+
+  /// The speed itself, whose views are the default (<= 1 ulp) ones.
+  const speed<T>& value() const { return s_; }
+  /// The named constructor and the input (the mass is the second input of the energy ones).
+  speed_origin origin() const { return origin_; }
+  T input() const { return x_; }
+  T mass() const { return y_; }
+
+ private:
+  friend class speed<T>;
+  enum class kind { beta, beta_deficit, gamma, gamma_m1, inv_gamma, dilation_fraction, rapidity, proper_speed };
+
+  speed<T> s_;
+  speed_origin origin_;
+  T x_, y_;
+
+  rounded_speed(const speed<T>& s, speed_origin origin, T x, T y) : s_(s), origin_(origin), x_(x), y_(y) {}
+
+  template <class U>
+  static U view_of(const speed<U>& s, kind k) {
+    switch (k) {
+      case kind::beta: return s.beta();
+      case kind::beta_deficit: return s.beta_deficit();
+      case kind::gamma: return s.gamma();
+      case kind::gamma_m1: return s.gamma_m1();
+      case kind::inv_gamma: return s.inv_gamma();
+      case kind::dilation_fraction: return s.dilation_fraction();
+      case kind::rapidity: return s.rapidity();
+      case kind::proper_speed: break;
+    }
+    return s.proper_speed();
+  }
+
+  // The same constructor on a wider type W (the input converts exactly).
+  template <class W>
+  speed<W> rebuild() const {
+    const W x(x_), y(y_);
+    switch (origin_) {
+      case speed_origin::beta: return speed<W>::from_beta(x);
+      case speed_origin::beta_deficit: return speed<W>::from_beta_deficit(x);
+      case speed_origin::gamma: return speed<W>::from_gamma(x);
+      case speed_origin::gamma_m1: return speed<W>::from_gamma_m1(x);
+      case speed_origin::rapidity: return speed<W>::from_rapidity(x);
+      case speed_origin::proper_speed: return speed<W>::from_proper_speed(x);
+      case speed_origin::kinetic_energy: return speed<W>::from_kinetic_energy(x, y);
+      case speed_origin::momentum: break;
+    }
+    return speed<W>::from_momentum(x, y);
+  }
+
+  // n / d as q + r / d with the remainder r = n - q d exact: error <= 2 u^2 |q| (bound 8 u^2).
+  static bool quotient(T n, T d, T& out) {
+    using std::abs;
+    if (!(abs(n) > numeric::rescale_threshold<T>())) return false;
+    const T q = n / d;
+    const T r = -numeric::fms(q, d, n);
+    return numeric::try_decide(numeric::dd<T>{q, r / d}, numeric::relative_u2<T, 3>() * abs(q), out);
+  }
+
+  // The fast paths (see the class comment); false leaves the view to the ladder.
+  bool fast(kind k, T& out) const {
+    const T one(1);
+    numeric::dd<T> parts;
+    switch (origin_) {
+      case speed_origin::beta: {
+        const T a = x_;
+        switch (k) {
+          case kind::beta: out = a; return true;
+          case kind::beta_deficit: return numeric::try_decide(numeric::fast_two_sum(one, -a), T(0), out);
+          case kind::gamma: { const T err = detail::gamma_parts(a, parts); return numeric::try_decide(parts, err, out); }
+          case kind::gamma_m1: { const T err = detail::gamma_m1_parts(a, parts); return numeric::try_decide(parts, err, out); }
+          case kind::inv_gamma: { const T err = detail::inv_gamma_parts(a, parts); return numeric::try_decide(parts, err, out); }
+          case kind::dilation_fraction: { const T err = detail::dilation_parts(a, parts); return numeric::try_decide(parts, err, out); }
+          case kind::proper_speed: { const T err = detail::proper_speed_parts(a, parts); return numeric::try_decide(parts, err, out); }
+          case kind::rapidity: return false;
+        }
+        return false;
+      }
+      case speed_origin::beta_deficit:
+        if (k == kind::beta_deficit) { out = x_; return true; }
+        if (k == kind::beta) return numeric::try_decide(numeric::fast_two_sum(one, -x_), T(0), out);
+        return false;
+      case speed_origin::gamma:
+        if (k == kind::gamma) { out = x_; return true; }
+        if (k == kind::gamma_m1) return numeric::try_decide(numeric::fast_two_sum(x_, -one), T(0), out);
+        if (k == kind::inv_gamma) return quotient(one, x_, out);
+        return false;
+      case speed_origin::gamma_m1:
+        if (k == kind::gamma_m1) { out = x_; return true; }
+        if (k == kind::gamma) return numeric::try_decide(numeric::two_sum(one, x_), T(0), out);
+        return false;
+      case speed_origin::rapidity:
+        if (k == kind::rapidity) { out = x_; return true; }
+        return false;
+      case speed_origin::proper_speed:
+        if (k == kind::proper_speed) { out = x_; return true; }
+        return false;
+      case speed_origin::kinetic_energy:
+        return k == kind::gamma_m1 && quotient(x_, y_, out);
+      case speed_origin::momentum:
+        return k == kind::proper_speed && quotient(x_, y_, out);
+    }
+    return false;
+  }
+
+  T view(kind k) const {
+    using std::isnan;
+    const T plain = view_of(s_, k);
+    if (isnan(plain)) return plain;  // built from invalid input under a NaN policy
+    T out;
+    if (fast(k, out)) return out;
+    return numeric::climb_ladder<T>(
+        [this, k](auto tag) {
+          using W = typename decltype(tag)::type;
+          return view_of(rebuild<W>(), k);
+        },
+        "eigenzeit::rounded_speed<%1%>::view", x_, ErrorPolicy());
   }
 };
 

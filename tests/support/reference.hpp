@@ -239,6 +239,16 @@ struct reference {
     mpfr_ui_sub(val[v_dilation].v, 1, val[v_inv_gamma].v, MPFR_RNDN);
     mpfr_atanh(val[v_rapidity].v, b.v, MPFR_RNDN);
     mpfr_mul(val[v_proper_speed].v, b.v, val[v_gamma].v, MPFR_RNDN);
+    // Where a view is an exact function of the input, take it exactly: gamma and gamma - 1 of
+    // the gamma constructors can be exact midpoints between two representable values (1 + x
+    // with one bit beyond the precision), which the route through beta would tip either way.
+    if (c == ctor::gamma) {
+      mpfr_set(val[v_gamma].v, x, MPFR_RNDN);
+      mpfr_sub_ui(val[v_gamma_m1].v, x, 1, MPFR_RNDN);
+    } else if (c == ctor::gamma_m1) {
+      mpfr_set(val[v_gamma_m1].v, x, MPFR_RNDN);
+      mpfr_add_ui(val[v_gamma].v, x, 1, MPFR_RNDN);
+    }
   }
 };
 

@@ -11,6 +11,9 @@
 #include <eigenzeit/numeric/policy.hpp>
 #include <eigenzeit/numeric/ulp.hpp>
 #include <eigenzeit/numeric/wider.hpp>
+#include <eigenzeit/numeric/ladder.hpp>
+#include <eigenzeit/numeric/rounding.hpp>
+#include <eigenzeit/numeric/guarded.hpp>
 #include <eigenzeit/constants.hpp>
 #include <eigenzeit/speed.hpp>
 

@@ -106,7 +106,9 @@ struct type_tag {
 /// gives +-inf, as the conversion of a built-in type would.
 template <class T, class W>
 inline T round_to(const W& w) {
-  if constexpr (std::is_floating_point<T>::value && std::is_floating_point<W>::value) {
+  if constexpr (std::is_same<T, W>::value) {
+    return w;
+  } else if constexpr (std::is_floating_point<T>::value && std::is_floating_point<W>::value) {
     return static_cast<T>(w);
   } else {
     using std::abs;
@@ -134,7 +136,8 @@ inline T round_to(const W& w) {
         using std::ilogb;
         using std::ldexp;
         const int lowest = std::numeric_limits<T>::min_exponent - 1;
-        const int e = h == 0 ? lowest : (ilogb(h) > lowest ? ilogb(h) : lowest);
+        const int eh = h == 0 ? lowest : static_cast<int>(ilogb(h));
+        const int e = eh > lowest ? eh : lowest;
         const T significand = ldexp(h, std::numeric_limits<T>::digits - 1 - e);
         return fmod(significand, T(2)) == 0 ? h : n;
       }

@@ -4,7 +4,9 @@
 // Every benchmark maps a batch of kBatch inputs to kBatch outputs per iteration, so the
 // report's items per second are elements per second.  Pairs share a name after the first
 // component: "careful/<name>" is the library routine, "naive/<name>" the textbook formula on
-// the same inputs, registered next to each other so both run under the same machine load.
+// the same inputs, "rounded/<name>" the library routine in the correctly rounded mode,
+// registered next to each other so they run under the same machine load.  "worst/<name>" is
+// the correctly rounded mode on an input that needs the ladder's multiprecision rung.
 // tools/bench_ratios.py turns the JSON output into a table of ns per element and ratios.
 //
 // Input sets (double unless a suffix says otherwise), fixed seeds so every run sees the same:
@@ -12,6 +14,9 @@
 //   /slow         signed beta with |beta| log-uniform in [1e-9, 1e-3] (walking pace up to
 //                 fast spacecraft); the careful forms take their series branch here
 //   view/...      speed<double> views; beta uniform in [0, 1), speeds built beforehand
+//                 (rounded_speed<double> from the same betas for rounded/view/...)
+//   from_gamma/...  views of speeds built from gamma = 1 / (1 - uniform): in the correctly
+//                 rounded mode most of them take the ladder (long double) every time
 //   /float, /long_double   lorentz_factor and lorentz_factor_m1 in other types, uniform set
 //
 // The loops are plain "out[i] = f(in[i])" so the compiler vectorizes whatever it can; at -O2
@@ -96,6 +101,54 @@ const std::vector<eigenzeit::speed<double>>& uniform_speeds() {
   return data;
 }
 
+/// rounded_speed<double> from the same betas.
+const std::vector<eigenzeit::rounded_speed<double>>& uniform_rounded_speeds() {
+  static const std::vector<eigenzeit::rounded_speed<double>> data = [] {
+    std::vector<eigenzeit::rounded_speed<double>> v;
+    for (double b : uniform_magnitude())
+      v.push_back(eigenzeit::speed<double>::from_beta(b, eigenzeit::correctly_rounded));
+    return v;
+  }();
+  return data;
+}
+
+/// gamma = 1 / (1 - x), x uniform in [0, 1): gamma from 1 to about 1e16.
+const std::vector<double>& uniform_gamma() {
+  static const std::vector<double> data = [] {
+    std::vector<double> v;
+    for (double b : uniform_magnitude()) v.push_back(1.0 / (1.0 - b));
+    return v;
+  }();
+  return data;
+}
+
+const std::vector<eigenzeit::speed<double>>& gamma_speeds() {
+  static const std::vector<eigenzeit::speed<double>> data = [] {
+    std::vector<eigenzeit::speed<double>> v;
+    for (double g : uniform_gamma()) v.push_back(eigenzeit::speed<double>::from_gamma(g));
+    return v;
+  }();
+  return data;
+}
+
+const std::vector<eigenzeit::rounded_speed<double>>& gamma_rounded_speeds() {
+  static const std::vector<eigenzeit::rounded_speed<double>> data = [] {
+    std::vector<eigenzeit::rounded_speed<double>> v;
+    for (double g : uniform_gamma())
+      v.push_back(eigenzeit::speed<double>::from_gamma(g, eigenzeit::correctly_rounded));
+    return v;
+  }();
+  return data;
+}
+
+/// The worst case found for lorentz_factor in the correctly rounded mode: beta = 1 - 2^-51,
+/// whose gamma lies within 2^-104 (relative) of a rounding boundary; long double cannot
+/// separate it, cpp_bin_float_50 can.  A whole batch of it.
+const std::vector<double>& hard_beta() {
+  static const std::vector<double> data(kBatch, 1.0 - std::ldexp(1.0, -51));
+  return data;
+}
+
 // ---- the batch loop --------------------------------------------------------------------------
 
 /// out[i] = f(in[i]) for the whole batch, once per iteration.  The input is "escaped" before
@@ -131,26 +184,36 @@ void add_free_functions(const std::string& suffix, const std::vector<double>& (*
   namespace ez = eigenzeit;
   add<double>("careful/lorentz_factor" + suffix, inputs,
               [](double b) { return ez::lorentz_factor(b); });
+  add<double>("rounded/lorentz_factor" + suffix, inputs,
+              [](double b) { return ez::lorentz_factor(b, ez::correctly_rounded); });
   add<double>("naive/lorentz_factor" + suffix, inputs,
               [](double b) { return 1.0 / std::sqrt(1.0 - b * b); });
 
   add<double>("careful/lorentz_factor_m1" + suffix, inputs,
               [](double b) { return ez::lorentz_factor_m1(b); });
+  add<double>("rounded/lorentz_factor_m1" + suffix, inputs,
+              [](double b) { return ez::lorentz_factor_m1(b, ez::correctly_rounded); });
   add<double>("naive/lorentz_factor_m1" + suffix, inputs,
               [](double b) { return 1.0 / std::sqrt(1.0 - b * b) - 1.0; });
 
   add<double>("careful/proper_speed" + suffix, inputs,
               [](double b) { return ez::proper_speed(b); });
+  add<double>("rounded/proper_speed" + suffix, inputs,
+              [](double b) { return ez::proper_speed(b, ez::correctly_rounded); });
   add<double>("naive/proper_speed" + suffix, inputs,
               [](double b) { return b / std::sqrt(1.0 - b * b); });
 
   add<double>("careful/dilation_fraction" + suffix, inputs,
               [](double b) { return ez::dilation_fraction(b); });
+  add<double>("rounded/dilation_fraction" + suffix, inputs,
+              [](double b) { return ez::dilation_fraction(b, ez::correctly_rounded); });
   add<double>("naive/dilation_fraction" + suffix, inputs,
               [](double b) { return 1.0 - std::sqrt(1.0 - b * b); });
 
   add<double>("careful/rapidity" + suffix, inputs,
               [](double b) { return ez::rapidity(b); });
+  add<double>("rounded/rapidity" + suffix, inputs,
+              [](double b) { return ez::rapidity(b, ez::correctly_rounded); });
   add<double>("naive/rapidity" + suffix, inputs,
               [](double b) { return 0.5 * std::log((1.0 + b) / (1.0 - b)); });
 }
@@ -189,6 +252,35 @@ void add_views() {
   add<double>("careful/view/proper_speed", speeds, [](const S& s) { return s.proper_speed(); });
   add<double>("naive/view/proper_speed", betas,
               [](double b) { return b / std::sqrt(1.0 - b * b); });
+
+  // The correctly rounded mode: rounded_speed<double> from the same betas, and views of speeds
+  // built from gamma (careful and rounded; the naive twin is the textbook formula of gamma).
+  using RS = eigenzeit::rounded_speed<double>;
+  const auto rounded = &uniform_rounded_speeds;
+  add<double>("rounded/view/beta", rounded, [](const RS& s) { return s.beta(); });
+  add<double>("rounded/view/beta_deficit", rounded, [](const RS& s) { return s.beta_deficit(); });
+  add<double>("rounded/view/gamma", rounded, [](const RS& s) { return s.gamma(); });
+  add<double>("rounded/view/gamma_m1", rounded, [](const RS& s) { return s.gamma_m1(); });
+  add<double>("rounded/view/inv_gamma", rounded, [](const RS& s) { return s.inv_gamma(); });
+  add<double>("rounded/view/dilation_fraction", rounded, [](const RS& s) { return s.dilation_fraction(); });
+  add<double>("rounded/view/rapidity", rounded, [](const RS& s) { return s.rapidity(); });
+  add<double>("rounded/view/proper_speed", rounded, [](const RS& s) { return s.proper_speed(); });
+
+  add<double>("careful/from_gamma/beta_deficit", &gamma_speeds, [](const S& s) { return s.beta_deficit(); });
+  add<double>("rounded/from_gamma/beta_deficit", &gamma_rounded_speeds, [](const RS& s) { return s.beta_deficit(); });
+  add<double>("naive/from_gamma/beta_deficit", &uniform_gamma,
+              [](double g) { return 1.0 - std::sqrt(1.0 - 1.0 / (g * g)); });
+  add<double>("careful/from_gamma/gamma_m1", &gamma_speeds, [](const S& s) { return s.gamma_m1(); });
+  add<double>("rounded/from_gamma/gamma_m1", &gamma_rounded_speeds, [](const RS& s) { return s.gamma_m1(); });
+  add<double>("naive/from_gamma/gamma_m1", &uniform_gamma, [](double g) { return g - 1.0; });
+  add<double>("careful/from_gamma/proper_speed", &gamma_speeds, [](const S& s) { return s.proper_speed(); });
+  add<double>("rounded/from_gamma/proper_speed", &gamma_rounded_speeds, [](const RS& s) { return s.proper_speed(); });
+  add<double>("naive/from_gamma/proper_speed", &uniform_gamma,
+              [](double g) { return std::sqrt(g * g - 1.0); });
+
+  // The worst case of the correctly rounded mode: every element climbs to cpp_bin_float_50.
+  add<double>("worst/lorentz_factor", &hard_beta,
+              [](double b) { return eigenzeit::lorentz_factor(b, eigenzeit::correctly_rounded); });
 
   // Building the speed itself; no textbook counterpart stores anything comparable.
   add<S>("careful/from_beta", betas, [](double b) { return S::from_beta(b); });

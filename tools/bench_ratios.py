@@ -1,8 +1,10 @@
 #!/usr/bin/env python3
 # eigenzeit: summarise Google Benchmark JSON output as careful/naive ratios.
 # Distributed under the Boost Software License, Version 1.0 (see LICENSE).
-"""Pair every "careful/X" benchmark with "naive/X" from the same JSON file and print a
-Markdown table of nanoseconds per element and the ratio careful / naive.
+"""Pair every "careful/X" benchmark with "naive/X" (and "rounded/X", the correctly rounded
+mode) from the same JSON file and print a Markdown table of nanoseconds per element and the
+ratios careful / naive, rounded / careful and rounded / naive.  "worst/X" benchmarks (the correctly rounded
+mode on inputs that need the multiprecision rung) are listed after the table.
 
 Usage: bench_ratios.py [--time cpu|real] [--batch N] FILE.json [FILE.json ...]
 
@@ -28,7 +30,7 @@ import statistics
 import sys
 
 _UNIT_TO_NS = {"ns": 1.0, "us": 1e3, "ms": 1e6, "s": 1e9}
-_PREFIXES = ("careful/", "naive/")
+_PREFIXES = ("careful/", "naive/", "rounded/", "worst/")
 
 
 def flavour_of(executable):
@@ -97,8 +99,9 @@ def main(argv=None):
     args = parser.parse_args(argv)
     time_key = f"{args.time}_time"
 
-    rows = []          # (name, flavour order, file, flavour, naive, careful, ratio)
-    ratios = {}        # flavour -> [(ratio, name)]
+    rows = []          # (name, flavour order, file, flavour, naive, careful, rounded)
+    ratios = {}        # (flavour, kind) -> [(ratio, name)]; kinds careful/naive, rounded/careful, rounded/naive
+    worst = []         # (flavour, name, ns)
     flavour_order = {"-O2": 0, "-O2 -mfma": 1}
     for path in args.files:
         try:
@@ -109,41 +112,54 @@ def main(argv=None):
         pairs = {}
         for full, ns in times.items():
             kind, name = split_name(full)
+            if kind == "worst":
+                worst.append((flavour, name, ns))
+                continue
             pairs.setdefault(name, {})[kind] = ns
         for name, both in pairs.items():
-            naive = both.get("naive")
-            careful = both.get("careful")
-            ratio = None
-            if naive is not None and careful is not None and naive > 0:
-                ratio = careful / naive
-                ratios.setdefault(flavour, []).append((ratio, name))
+            naive, careful, rounded = both.get("naive"), both.get("careful"), both.get("rounded")
+            if naive and careful:
+                ratios.setdefault((flavour, "careful/naive"), []).append((careful / naive, name))
+            if careful and rounded:
+                ratios.setdefault((flavour, "rounded/careful"), []).append((rounded / careful, name))
+            if naive and rounded:
+                ratios.setdefault((flavour, "rounded/naive"), []).append((rounded / naive, name))
             rows.append((name, flavour_order.get(flavour, 2), os.path.basename(path), flavour,
-                         naive, careful, ratio))
+                         naive, careful, rounded))
 
     if not rows:
-        print("error: no careful/ or naive/ benchmarks in the given files", file=sys.stderr)
+        print("error: no careful/, naive/ or rounded/ benchmarks in the given files", file=sys.stderr)
         return 1
+
+    def ratio_text(a, b):
+        return f"{a / b:.2f}" if a and b else ""
 
     rows.sort(key=lambda r: (r[0], r[1], r[2]))
     print(f"Time per element = {args.time}_time per iteration / {args.batch} "
           f"(median of repetitions when present).")
     print()
-    print("| file | build | name | naive ns/elem | careful ns/elem | careful/naive |")
-    print("|---|---|---|---:|---:|---:|")
-    for name, _, file_name, flavour, naive, careful, ratio in rows:
-        ratio_text = "" if ratio is None else f"{ratio:.2f}"
+    print("| file | build | name | naive ns/elem | careful ns/elem | rounded ns/elem "
+          "| careful/naive | rounded/careful | rounded/naive |")
+    print("|---|---|---|---:|---:|---:|---:|---:|---:|")
+    for name, _, file_name, flavour, naive, careful, rounded in rows:
         print(f"| {file_name} | {flavour} | {name} | {fmt_ns(naive)} | {fmt_ns(careful)} "
-              f"| {ratio_text} |")
+              f"| {fmt_ns(rounded)} | {ratio_text(careful, naive)} | {ratio_text(rounded, careful)} "
+              f"| {ratio_text(rounded, naive)} |")
     print()
+    for flavour, name, ns in sorted(worst, key=lambda w: (flavour_order.get(w[0], 2), w[1])):
+        print(f"Worst case, {flavour}: {name} takes {ns:.1f} ns per element in the correctly "
+              f"rounded mode (multiprecision rung).")
+    if worst:
+        print()
 
     parts = []
-    for flavour in sorted(ratios, key=lambda f: (flavour_order.get(f, 2), f)):
-        values = ratios[flavour]
-        worst, worst_name = max(values)
+    for (flavour, kind) in sorted(ratios, key=lambda k: (flavour_order.get(k[0], 2), k[0], k[1])):
+        values = ratios[(flavour, kind)]
+        top, top_name = max(values)
         geo = math.exp(sum(math.log(r) for r, _ in values) / len(values))
-        parts.append(f"{flavour}: max {worst:.2f} ({worst_name}), geometric mean {geo:.2f} "
+        parts.append(f"{flavour} {kind}: max {top:.2f} ({top_name}), geometric mean {geo:.2f} "
                      f"over {len(values)} pairs")
-    print("Summary: " + ("; ".join(parts) if parts else "no careful/naive pairs"))
+    print("Summary: " + ("; ".join(parts) if parts else "no pairs"))
     return 0
 
 

@@ -64,15 +64,34 @@ TEST_CASE("climb_ladder: decides on the first rung that separates the candidates
   CHECK(rungs == 1);
 }
 
-TEST_CASE("climb_ladder: an exact midpoint on every rung is an evaluation error, not a loop") {
+TEST_CASE("climb_ladder: an exact tie on every rung is taken as exact at the top, ties to even") {
   const auto midpoint = [](auto tag) {
     using W = typename decltype(tag)::type;
     using std::ldexp;
     return W(1) + ldexp(W(1), -53);  // exactly between 1 and 1 + 2^-52 at every precision
   };
   int rungs = 0;
+  CHECK(ezn::climb_ladder<double>(midpoint, "f", 0.5, ez::throw_policy(), &rungs) == 1.0);
+  CHECK(rungs == ezn::rungs_above<double>());
+  const auto odd_midpoint = [](auto tag) {
+    using W = typename decltype(tag)::type;
+    using std::ldexp;
+    return W(1) + 3 * ldexp(W(1), -53);  // between 1 + 2^-52 (odd) and 1 + 2^-51 (even)
+  };
+  CHECK(ezn::climb_ladder<double>(odd_midpoint, "f", 0.5, ez::throw_policy()) == 1.0 + std::ldexp(1.0, -51));
+}
+
+TEST_CASE("climb_ladder: undecided on every rung is an evaluation error, not a loop") {
+  // Two ulps of each rung above a midpoint: always inside the rung's trusted interval, never
+  // the exact tie.
+  const auto near_midpoint = [](auto tag) {
+    using W = typename decltype(tag)::type;
+    using std::ldexp;
+    return W(1) + ldexp(W(1), -53) + ldexp(W(2), 1 - std::numeric_limits<W>::digits);
+  };
+  int rungs = 0;
   try {
-    (void)ezn::climb_ladder<double>(midpoint, "eigenzeit::test_routine<%1%>(%1%)", 0.5,
+    (void)ezn::climb_ladder<double>(near_midpoint, "eigenzeit::test_routine<%1%>(%1%)", 0.5,
                                     ez::throw_policy(), &rungs);
     FAIL("no exception");
   } catch (const boost::math::evaluation_error& e) {
@@ -82,9 +101,9 @@ TEST_CASE("climb_ladder: an exact midpoint on every rung is an evaluation error,
     CHECK(what.find("widest") != std::string::npos);
   }
   CHECK(rungs == ezn::rungs_above<double>());
-  CHECK(std::isnan(ezn::climb_ladder<double>(midpoint, "f", 0.5, ez::nan_policy())));
+  CHECK(std::isnan(ezn::climb_ladder<double>(near_midpoint, "f", 0.5, ez::nan_policy())));
   errno = 0;
-  CHECK(std::isnan(ezn::climb_ladder<double>(midpoint, "f", 0.5, ez::errno_policy())));
+  CHECK(std::isnan(ezn::climb_ladder<double>(near_midpoint, "f", 0.5, ez::errno_policy())));
   CHECK(errno == EDOM);
 }
 

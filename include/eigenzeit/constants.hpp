@@ -65,8 +65,9 @@ template <class T = double>
 inline T TDB0() { return detail::decimal<T>(-6.55e-5L, "-6.55e-5"); }
 
 /// T0 = 2443144.5003725, the Julian date (in TT, TCG and TCB alike) of 1977 January 1,
-/// 00:00:32.184 TT, where the three scales agree [IERS 10.1].  Split in two parts so that the
-/// fraction is exact in every type: whole day 2443144.5 and fraction 0.0003725 of a day.
+/// 00:00:32.184 TT, where the three scales agree [IERS 10.1].  Split in two parts: the whole
+/// day 2443144.5, exact, and the fraction 0.0003725 of a day, rounded once (0.0003725 is not a
+/// binary fraction; in double the rounding is below 2.7e-20 day, 2.4e-15 s).
 template <class T = double>
 inline T T0_day() { return T(2443144.5); }
 template <class T = double>

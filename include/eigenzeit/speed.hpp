@@ -802,14 +802,15 @@ class speed {
 /// cannot decide.  It keeps the speed<T> and the input it
 /// came from (so 4 sizeof(T) + 2 sizeof(T) + the origin tag; 56 bytes for double).
 ///
-/// Each view first tries a fast path from the input, where an exact or O(u^2) form exists for
-/// that constructor (the views of from_beta, the input view of every constructor and its exact
-/// neighbours: 1 - beta from beta, gamma - 1 from gamma, gamma from gamma - 1, the quotients
-/// of the energy constructors).  Otherwise, and where the fast path's bound leaves the
-/// rounding open, the speed is built again from the same input on the next wider type of the
-/// ladder (long double for double, double for float) and the view rounded back, climbing on
-/// until the rounding is decided (numeric/rounding.hpp).  The fallback therefore costs one
-/// construction and one view in the wider type.
+/// Each view first tries a fast path from the input: the free functions' forms for from_beta,
+/// and for the other algebraic constructors gamma - 1, gamma and the proper speed as
+/// double-word numbers from the input (sums and products of positive terms, O(u^2)), from
+/// which every algebraic view follows without cancellation (see from_mgu).  Where that path's
+/// bound leaves the rounding open, for the rapidity views, for everything built from a
+/// rapidity, and for inputs near the ends of the exponent range, the speed is built again from
+/// the same input on the next wider type of the ladder (long double for double, double for
+/// float) and the view rounded back, climbing on until the rounding is decided
+/// (numeric/rounding.hpp).  That fallback costs one construction and one view in the wider type.
 template <class T, class ErrorPolicy>
 class rounded_speed {
  public:
@@ -874,15 +875,6 @@ class rounded_speed {
     return speed<W>::from_momentum(x, y);
   }
 
-  // n / d as q + r / d with the remainder r = n - q d exact: error <= 2 u^2 |q| (bound 8 u^2).
-  static bool quotient(T n, T d, T& out) {
-    using std::abs;
-    if (!(abs(n) > numeric::rescale_threshold<T>())) return false;
-    const T q = n / d;
-    const T r = -numeric::fms(q, d, n);
-    return numeric::try_decide(numeric::dd<T>{q, r / d}, numeric::relative_u2<T, 3>() * abs(q), out);
-  }
-
   // The fast paths (see the class comment); false leaves the view to the ladder.
   bool fast(kind k, T& out) const {
     const T one(1);
@@ -902,31 +894,93 @@ class rounded_speed {
         }
         return false;
       }
-      case speed_origin::beta_deficit:
+      case speed_origin::beta_deficit: {
         if (k == kind::beta_deficit) { out = x_; return true; }
-        if (k == kind::beta) return numeric::try_decide(numeric::fast_two_sum(one, -x_), T(0), out);
-        return false;
-      case speed_origin::gamma:
+        const numeric::dd<T> b = numeric::fast_two_sum(one, -x_);  // exact
+        if (k == kind::beta) return numeric::try_decide(b, T(0), out);
+        // q = d (2 - d) = 1 - beta^2, s = sqrt(q): gamma = 1/s, u = beta/s, gamma - 1 =
+        // beta^2 / (s (1 + s)); positive terms only.
+        const numeric::dd<T> q = numeric::dd_mul(numeric::dd<T>{x_, T(0)}, numeric::fast_two_sum(T(2), -x_));
+        if (!(q.hi > numeric::rescale_threshold<T>())) return false;
+        const numeric::dd<T> sq = numeric::dd_sqrt(q);
+        const numeric::dd<T> g = numeric::dd_div(numeric::dd<T>{one, T(0)}, sq);
+        const numeric::dd<T> m = numeric::dd_div(numeric::dd_mul(b, b),
+                                                 numeric::dd_mul(sq, numeric::dd_add(numeric::dd<T>{one, T(0)}, sq)));
+        return from_mgu(m, g, numeric::dd_div(b, sq), k, out);
+      }
+      // gamma - 1 = gamma minus one and gamma = 1 + (gamma - 1) are exact pairs: decided with no
+      // error bound at all, which also rounds their exact ties (one bit beyond the precision).
+      case speed_origin::gamma: {
+        const numeric::dd<T> m = numeric::fast_two_sum(x_, -one);
         if (k == kind::gamma) { out = x_; return true; }
-        if (k == kind::gamma_m1) return numeric::try_decide(numeric::fast_two_sum(x_, -one), T(0), out);
-        if (k == kind::inv_gamma) return quotient(one, x_, out);
-        return false;
-      case speed_origin::gamma_m1:
+        if (k == kind::gamma_m1) return numeric::try_decide(m, T(0), out);
+        return from_m(m, {x_, T(0)}, k, out);
+      }
+      case speed_origin::gamma_m1: {
+        const numeric::dd<T> g = numeric::two_sum(one, x_);
         if (k == kind::gamma_m1) { out = x_; return true; }
-        if (k == kind::gamma) return numeric::try_decide(numeric::two_sum(one, x_), T(0), out);
-        return false;
+        if (k == kind::gamma) return numeric::try_decide(g, T(0), out);
+        return from_m({x_, T(0)}, g, k, out);
+      }
+      case speed_origin::kinetic_energy: {
+        const numeric::dd<T> m = numeric::dd_div(numeric::dd<T>{x_, T(0)}, numeric::dd<T>{y_, T(0)});
+        const bool exact = m.lo == 0 && numeric::fms(m.hi, y_, x_) == 0;  // K / mass representable
+        const numeric::dd<T> g = numeric::dd_add(numeric::dd<T>{one, T(0)}, m);
+        if (exact && k == kind::gamma) return numeric::try_decide(numeric::two_sum(one, m.hi), T(0), out);
+        if (exact && k == kind::gamma_m1) { out = m.hi; return true; }
+        return from_m(m, g, k, out);
+      }
+      case speed_origin::proper_speed:
+        if (k == kind::proper_speed) { out = x_; return true; }
+        return from_u({x_, T(0)}, k, out);
+      case speed_origin::momentum:
+        return from_u(numeric::dd_div(numeric::dd<T>{x_, T(0)}, numeric::dd<T>{y_, T(0)}), k, out);
       case speed_origin::rapidity:
         if (k == kind::rapidity) { out = x_; return true; }
         return false;
-      case speed_origin::proper_speed:
-        if (k == kind::proper_speed) { out = x_; return true; }
-        return false;
-      case speed_origin::kinetic_energy:
-        return k == kind::gamma_m1 && quotient(x_, y_, out);
-      case speed_origin::momentum:
-        return k == kind::proper_speed && quotient(x_, y_, out);
     }
     return false;
+  }
+
+  // The algebraic views from m = gamma - 1, g = gamma and u = beta gamma, each a double-word
+  // number within ~8 u^2 (relative) of its exact value: beta = u / g, 1 - beta = 1 / (g (g + u))
+  // (as g^2 - u^2 = 1), 1/gamma, 1 - 1/gamma = m / g.  Every operation adds terms of one sign and
+  // costs <= 4 u^2, so each view is within ~32 u^2 before its last rounding; bound 1024 u^2.
+  // Tiny m (below rescale_threshold) and huge g (whose square would overflow) go to the ladder.
+  static bool from_mgu(numeric::dd<T> m, numeric::dd<T> g, numeric::dd<T> u, kind k, T& out) {
+    using std::abs;
+    if (!(m.hi > numeric::rescale_threshold<T>()) ||
+        !(g.hi < numeric::pow2_const<T, std::numeric_limits<T>::max_exponent / 2 - 2>()))
+      return false;
+    const numeric::dd<T> one{T(1), T(0)};
+    numeric::dd<T> v = g;
+    switch (k) {
+      case kind::beta: v = numeric::dd_div(u, g); break;
+      case kind::beta_deficit: v = numeric::dd_div(one, numeric::dd_mul(g, numeric::dd_add(g, u))); break;
+      case kind::gamma: break;
+      case kind::gamma_m1: v = m; break;
+      case kind::inv_gamma: v = numeric::dd_div(one, g); break;
+      case kind::dilation_fraction: v = numeric::dd_div(m, g); break;
+      case kind::proper_speed: v = u; break;
+      case kind::rapidity: return false;
+    }
+    return numeric::try_decide(v, numeric::relative_u2<T, 10>() * abs(v.hi), out);
+  }
+
+  // From m and g: u = sqrt(m (m + 2)).
+  static bool from_m(numeric::dd<T> m, numeric::dd<T> g, kind k, T& out) {
+    if (!(g.hi < numeric::pow2_const<T, std::numeric_limits<T>::max_exponent / 2 - 2>())) return false;
+    const numeric::dd<T> u = numeric::dd_sqrt(numeric::dd_mul(m, numeric::dd_add(m, numeric::dd<T>{T(2), T(0)})));
+    return from_mgu(m, g, u, k, out);
+  }
+
+  // From u: g = sqrt(1 + u^2), m = u^2 / (1 + g).
+  static bool from_u(numeric::dd<T> u, kind k, T& out) {
+    if (!(u.hi < numeric::pow2_const<T, std::numeric_limits<T>::max_exponent / 2 - 2>())) return false;
+    const numeric::dd<T> one{T(1), T(0)};
+    const numeric::dd<T> u2 = numeric::dd_mul(u, u);
+    const numeric::dd<T> g = numeric::dd_sqrt(numeric::dd_add(one, u2));
+    return from_mgu(numeric::dd_div(u2, numeric::dd_add(one, g)), g, u, k, out);
   }
 
   T view(kind k) const {

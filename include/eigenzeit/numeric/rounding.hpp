@@ -111,6 +111,20 @@ inline bool climb(const Eval& eval, T& out, int& rung) {
       out = round_to<T>(w);
       return true;
     }
+    if constexpr (!has_next_rung_v<W>) {
+      // The top rung: if its value is exactly halfway between two values of T, take the
+      // result to be that exact tie (rounded to even).  An exact result of this library
+      // that is a tie (gamma = 1 + m with one bit beyond the precision, 1 - 1/gamma for
+      // gamma = 2^(p+1)) is represented exactly on every rung and can be decided no other
+      // way; an inexact one would have to agree with a midpoint to all of the top rung's
+      // digits (over 1300 bits), far beyond how close these algebraic values of p-bit inputs
+      // can come to one.
+      using std::nextafter;
+      if (nextafter(below, above) == above && w == (W(below) + W(above)) / 2) {
+        out = round_to<T>(w);
+        return true;
+      }
+    }
     return climb<T, next_rung_t<W>>(eval, out, rung);
   }
 }

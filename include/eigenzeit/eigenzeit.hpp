@@ -16,5 +16,7 @@
 #include <eigenzeit/numeric/guarded.hpp>
 #include <eigenzeit/constants.hpp>
 #include <eigenzeit/speed.hpp>
+#include <eigenzeit/timing/two_part_time.hpp>
+#include <eigenzeit/timing/time_scales.hpp>
 
 #endif

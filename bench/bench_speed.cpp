@@ -6,7 +6,8 @@
 // component: "careful/<name>" is the library routine, "naive/<name>" the textbook formula on
 // the same inputs, "rounded/<name>" the library routine in the correctly rounded mode,
 // registered next to each other so they run under the same machine load.  "worst/<name>" is
-// the correctly rounded mode on an input that needs the ladder's multiprecision rung.
+// the correctly rounded mode on an input that needs the ladder's multiprecision rung, and
+// "rung/<name>/<type>" the careful form on each rung of the widening ladder.
 // tools/bench_ratios.py turns the JSON output into a table of ns per element and ratios.
 //
 // Input sets (double unless a suffix says otherwise), fixed seeds so every run sees the same:
@@ -304,7 +305,25 @@ void add_other_type(const std::string& suffix) {
          [](T b) { return T(1) / std::sqrt(T(1) - b * b) - T(1); });
 }
 
+/// One careful gamma - 1 on each rung of the widening ladder (what a fallback costs there):
+/// "rung/lorentz_factor_m1/<type>", uniform signed inputs converted to the rung's type.
+template <class W>
+void add_rung(const std::string& type_name) {
+  static const std::vector<W> inputs = [] {
+    std::vector<W> v;
+    for (double b : uniform_signed<double>()) v.push_back(W(b));
+    return v;
+  }();
+  benchmark::RegisterBenchmark(("rung/lorentz_factor_m1/" + type_name).c_str(), [](benchmark::State& state) {
+    run_batch<W>(state, inputs, [](const W& b) { return eigenzeit::lorentz_factor_m1(b); });
+  });
+}
+
 int register_all() {
+  add_rung<double>("double");
+  add_rung<long double>("long_double");
+  add_rung<eigenzeit::numeric::ladder_mp_rung>("cpp_bin_float_50");
+  add_rung<eigenzeit::numeric::next_rung_t<eigenzeit::numeric::ladder_mp_rung>>("cpp_bin_float_100");
   add_free_functions("", &uniform_signed<double>);
   add_free_functions("/slow", &slow_signed);
   add_views();

@@ -4,7 +4,8 @@
 """Pair every "careful/X" benchmark with "naive/X" (and "rounded/X", the correctly rounded
 mode) from the same JSON file and print a Markdown table of nanoseconds per element and the
 ratios careful / naive, rounded / careful and rounded / naive.  "worst/X" benchmarks (the correctly rounded
-mode on inputs that need the multiprecision rung) are listed after the table.
+mode on inputs that need the multiprecision rung) and "rung/X" benchmarks (one evaluation on
+each rung of the widening ladder) are listed after the table.
 
 Usage: bench_ratios.py [--time cpu|real] [--batch N] FILE.json [FILE.json ...]
 
@@ -30,7 +31,7 @@ import statistics
 import sys
 
 _UNIT_TO_NS = {"ns": 1.0, "us": 1e3, "ms": 1e6, "s": 1e9}
-_PREFIXES = ("careful/", "naive/", "rounded/", "worst/")
+_PREFIXES = ("careful/", "naive/", "rounded/", "worst/", "rung/")
 
 
 def flavour_of(executable):
@@ -102,6 +103,7 @@ def main(argv=None):
     rows = []          # (name, flavour order, file, flavour, naive, careful, rounded)
     ratios = {}        # (flavour, kind) -> [(ratio, name)]; kinds careful/naive, rounded/careful, rounded/naive
     worst = []         # (flavour, name, ns)
+    rungs = []         # (flavour, name, ns): one careful evaluation on each rung of the ladder
     flavour_order = {"-O2": 0, "-O2 -mfma": 1}
     for path in args.files:
         try:
@@ -114,6 +116,9 @@ def main(argv=None):
             kind, name = split_name(full)
             if kind == "worst":
                 worst.append((flavour, name, ns))
+                continue
+            if kind == "rung":
+                rungs.append((flavour, name, ns))
                 continue
             pairs.setdefault(name, {})[kind] = ns
         for name, both in pairs.items():
@@ -150,6 +155,10 @@ def main(argv=None):
         print(f"Worst case, {flavour}: {name} takes {ns:.1f} ns per element in the correctly "
               f"rounded mode (multiprecision rung).")
     if worst:
+        print()
+    for flavour, name, ns in sorted(rungs, key=lambda w: (flavour_order.get(w[0], 2), w[2])):
+        print(f"Ladder rung, {flavour}: {name} takes {ns:.1f} ns per element.")
+    if rungs:
         print()
 
     parts = []

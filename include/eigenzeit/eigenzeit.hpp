@@ -18,5 +18,9 @@
 #include <eigenzeit/speed.hpp>
 #include <eigenzeit/timing/two_part_time.hpp>
 #include <eigenzeit/timing/time_scales.hpp>
+#include <eigenzeit/timing/clock_rate.hpp>
+#include <eigenzeit/timing/potential.hpp>
+#include <eigenzeit/timing/orbit_clock.hpp>
+#include <eigenzeit/timing/trajectory.hpp>
 
 #endif

@@ -134,6 +134,20 @@ EIGENZEIT_HOST_DEVICE inline T exp_(T x) {
   return T(exp(W(x)));
 }
 
+/// ln 2 as a double-word number: the high word from T's own log (correctly rounded for the
+/// built-in types), the low word from the next rung of the ladder (none for a type without one).
+template <class T>
+inline dd<T> ln2_words() {
+  using std::log;
+  const T hi = log(T(2));
+  using W = numeric::next_rung_t<T>;
+  if constexpr (std::is_void<W>::value) {
+    return {hi, T(0)};
+  } else {
+    return {hi, T(log(W(2)) - W(hi))};
+  }
+}
+
 /// atanh(a + al) for 0 <= a < 1 given as a double-word number (HasLow = false: al is 0).
 /// d = 1 - a is split exactly.  For a <= 1/9: eta = log1p(z) / 2 with z = 2a / d; the
 /// quotient's remainder rho is exact and log1p(z + rho/d) = log1p(z) + rho / (1 + a).
@@ -504,10 +518,21 @@ class speed {
     // sinh(eta) = (E - 1/E) / 2 with E = e^eta: E's rounding (~1 ulp) passes to the proper
     // speed and gamma nearly unchanged (the 1/E term is below 4e-4 of E for eta > 4).
     const T big = detail::exp_(eta);
-    if (!isfinite(big))
-      return invalid("eigenzeit::speed<%1%>::from_rapidity(%1%)",
-                     "rapidity = %1% gives a Lorentz factor beyond the largest finite value",
-                     eta, pol);
+    if (!isfinite(big)) {
+      // e^eta overflows while gamma = e^eta / 2 (1 + e^(-2 eta)) may not: E/2 = exp(eta - ln 2),
+      // with ln 2 as a double-word constant, so that r = eta - ln 2 is exact to ~u^2 (the
+      // two_sum) and exp(r.hi + r.lo) = exp(r.hi) (1 + r.lo): exp's one rounding, as above.
+      // 1/E is below 2^-1000 of E here: gamma = proper speed = E/2, and 1 - beta underflows.
+      const numeric::dd<T> ln2 = detail::ln2_words<T>();
+      numeric::dd<T> r = numeric::two_sum(eta, -ln2.hi);
+      r = numeric::fast_two_sum(r.hi, r.lo - ln2.lo);
+      const T half = detail::exp_(r.hi);
+      if (!isfinite(half))
+        return invalid("eigenzeit::speed<%1%>::from_rapidity(%1%)",
+                       "rapidity = %1% gives a Lorentz factor beyond the largest finite value",
+                       eta, pol);
+      return from_proper_speed_dd(numeric::fast_two_sum(half, half * r.lo));
+    }
     numeric::dd<T> e{big, T(0)};
     numeric::dd<T> u = numeric::dd_add(e, numeric::dd_div(numeric::dd<T>{T(-1), T(0)}, e));
     speed s = from_proper_speed_dd({u.hi / 2, u.lo / 2});
@@ -540,20 +565,23 @@ class speed {
     if (!(kinetic >= T(0)) || !isfinite(kinetic))
       return invalid("eigenzeit::speed<%1%>::from_kinetic_energy(%1%, mass)",
                      "kinetic energy = %1%, but it must be finite and >= 0", kinetic, pol);
-    numeric::dd<T> m = numeric::dd_div(numeric::dd<T>{kinetic, T(0)}, numeric::dd<T>{mass, T(0)});
-    if (!isfinite(m.hi))
+    if (kinetic == 0) return speed();
+    // m = K / mass as r 2^e with r from the significands (see ratio): no overflow, no
+    // underflow, an exact remainder, whatever the two exponents.
+    int e = 0;
+    const numeric::dd<T> r = ratio(kinetic, mass, e);
+    if (e > std::numeric_limits<T>::max_exponent - 1)
       return invalid("eigenzeit::speed<%1%>::from_kinetic_energy(%1%, mass)",
                      "kinetic energy = %1% over the mass gives a Lorentz factor beyond the "
                      "largest finite value", kinetic, pol);
+    const numeric::dd<T> m = numeric::dd_ldexp(r, e);
     if (m.hi < numeric::rescale_threshold<T>()) {
-      // K/m so small that it leaves the normal range while beta = sqrt(2 K/m) does not:
-      // form 2^(2k) K / m (exact scaling, normal), take the root, scale back by 2^-k.
-      // Dropping m^2 from m (m + 2) costs a relative m / 2, far below u here.
-      const int k = numeric::digits_v<T>;
-      numeric::dd<T> ms = numeric::dd_div(numeric::dd<T>{numeric::pow2<T>(2 * k) * kinetic, T(0)},
-                                          numeric::dd<T>{mass, T(0)});
-      numeric::dd<T> b = numeric::dd_sqrt(numeric::dd<T>{2 * ms.hi, 2 * ms.lo});
-      return speed(numeric::dd_ldexp(b, -k), add_one(m));
+      // K/m so small that it may leave the normal range while beta = sqrt(2 K/m) does not:
+      // beta = sqrt(2 r 2^e) with the exponent halved exactly (2 r or 4 r under the root so
+      // that e becomes even).  Dropping m^2 from m (m + 2) costs a relative m / 2, far below u.
+      const int odd = (e % 2 != 0) ? 1 : 0;
+      const numeric::dd<T> b = numeric::dd_sqrt(numeric::dd_ldexp(r, 1 + odd));
+      return speed(numeric::dd_ldexp(b, (e - odd) / 2), add_one(m));
     }
     return from_gamma_m1_dd(m, add_one(m));
   }
@@ -568,11 +596,14 @@ class speed {
     if (!(momentum >= T(0)) || !isfinite(momentum))
       return invalid("eigenzeit::speed<%1%>::from_momentum(%1%, mass)",
                      "momentum = %1%, but it must be finite and >= 0", momentum, pol);
-    numeric::dd<T> u = numeric::dd_div(numeric::dd<T>{momentum, T(0)}, numeric::dd<T>{mass, T(0)});
-    if (!isfinite(u.hi))
+    if (momentum == 0) return speed();
+    int e = 0;
+    const numeric::dd<T> r = ratio(momentum, mass, e);
+    if (e > std::numeric_limits<T>::max_exponent - 1)
       return invalid("eigenzeit::speed<%1%>::from_momentum(%1%, mass)",
                      "momentum = %1% over the mass gives a proper speed beyond the largest "
                      "finite value", momentum, pol);
+    const numeric::dd<T> u = numeric::dd_ldexp(r, e);
     return from_proper_speed_dd(u);
   }
 
@@ -712,6 +743,16 @@ class speed {
     return numeric::fast_two_sum(g.hi, g.lo);
   }
 
+  // a / b = r 2^e with r in (1/2, 2) as a double-word number: the significands of a and b
+  // (both positive and finite) divided with an exact remainder.  Error <= 4 u^2 relative.
+  static numeric::dd<T> ratio(T a, T b, int& e) {
+    using std::ilogb;
+    using std::ldexp;
+    const int ea = static_cast<int>(ilogb(a)), eb = static_cast<int>(ilogb(b));
+    e = ea - eb;
+    return numeric::dd_div(numeric::dd<T>{ldexp(a, -ea), T(0)}, numeric::dd<T>{ldexp(b, -eb), T(0)});
+  }
+
   static numeric::dd<T> add_one(numeric::dd<T> m) {
     return numeric::dd_add(numeric::two_sum(T(1), m.hi), numeric::dd<T>{m.lo, T(0)});
   }
@@ -756,6 +797,14 @@ class speed {
 
   // Builds from m = gamma - 1 and gamma, both accurate double-word numbers.
   static speed from_gamma_m1_dd(numeric::dd<T> m, numeric::dd<T> g) {
+    if (m.hi < numeric::rescale_threshold<T>()) {
+      // Tiny m (subnormal included): beta = sqrt(2 m) to far below an ulp, taken from
+      // 2^(4p) m (exact scaling, well inside the normal range, so the square root's residual
+      // is exact) and scaled back by 2^(-2p).
+      const int k = 2 * numeric::digits_v<T>;
+      const numeric::dd<T> b = numeric::dd_sqrt(numeric::dd_ldexp(m, 2 * k + 1));
+      return speed(numeric::dd_ldexp(b, -k), g);
+    }
     if (m.hi <= T(1)) {
       // beta = sqrt(m (m + 2)) / gamma: products and sums of positive terms only.
       numeric::dd<T> m2 = numeric::dd_add(m, numeric::dd<T>{T(2), T(0)});
@@ -923,6 +972,7 @@ class rounded_speed {
         return from_m({x_, T(0)}, g, k, out);
       }
       case speed_origin::kinetic_energy: {
+        if (!energies_in_range()) return false;
         const numeric::dd<T> m = numeric::dd_div(numeric::dd<T>{x_, T(0)}, numeric::dd<T>{y_, T(0)});
         const bool exact = m.lo == 0 && numeric::fms(m.hi, y_, x_) == 0;  // K / mass representable
         const numeric::dd<T> g = numeric::dd_add(numeric::dd<T>{one, T(0)}, m);
@@ -934,12 +984,21 @@ class rounded_speed {
         if (k == kind::proper_speed) { out = x_; return true; }
         return from_u({x_, T(0)}, k, out);
       case speed_origin::momentum:
+        if (!energies_in_range()) return false;
         return from_u(numeric::dd_div(numeric::dd<T>{x_, T(0)}, numeric::dd<T>{y_, T(0)}), k, out);
       case speed_origin::rapidity:
         if (k == kind::rapidity) { out = x_; return true; }
         return false;
     }
     return false;
+  }
+
+  // The quotient of the energy constructors has an exact remainder only while both inputs
+  // stay far from the ends of the exponent range; elsewhere the ladder decides.
+  bool energies_in_range() const {
+    const T big = numeric::pow2_const<T, std::numeric_limits<T>::max_exponent / 2>();
+    return x_ > numeric::rescale_threshold<T>() && y_ > numeric::rescale_threshold<T>() &&
+           x_ < big && y_ < big;
   }
 
   // The algebraic views from m = gamma - 1, g = gamma and u = beta gamma, each a double-word
@@ -990,9 +1049,9 @@ class rounded_speed {
     T out;
     if (fast(k, out)) return out;
     return numeric::climb_ladder<T>(
-        [this, k](auto tag) {
+        [self = this, k](auto tag) {
           using W = typename decltype(tag)::type;
-          return view_of(rebuild<W>(), k);
+          return view_of(self->template rebuild<W>(), k);
         },
         "eigenzeit::rounded_speed<%1%>::view", x_, ErrorPolicy());
   }

@@ -248,6 +248,9 @@ struct reference {
     } else if (c == ctor::gamma_m1) {
       mpfr_set(val[v_gamma_m1].v, x, MPFR_RNDN);
       mpfr_add_ui(val[v_gamma].v, x, 1, MPFR_RNDN);
+    } else if (c == ctor::kinetic_energy) {  // K / m may be representable, 1 + K / m a tie
+      mpfr_div(val[v_gamma_m1].v, x, y, MPFR_RNDN);
+      mpfr_add_ui(val[v_gamma].v, val[v_gamma_m1].v, 1, MPFR_RNDN);
     }
   }
 };

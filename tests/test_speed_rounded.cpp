@@ -39,18 +39,6 @@ ez::rounded_speed<T> construct_rounded(ctor c, T x, T y) {
   return S::from_momentum(x, y, cr);
 }
 
-template <class T>
-void rounded_views(const ez::rounded_speed<T>& s, T out[ez_test::n_views]) {
-  out[ez_test::v_beta] = s.beta();
-  out[ez_test::v_deficit] = s.beta_deficit();
-  out[ez_test::v_gamma] = s.gamma();
-  out[ez_test::v_gamma_m1] = s.gamma_m1();
-  out[ez_test::v_inv_gamma] = s.inv_gamma();
-  out[ez_test::v_dilation] = s.dilation_fraction();
-  out[ez_test::v_rapidity] = s.rapidity();
-  out[ez_test::v_proper_speed] = s.proper_speed();
-}
-
 // Exact comparison with MPFR's correctly rounded value; both NaN-free here.  Counts, and
 // prints the first few failures with their inputs.
 struct cr_count {
@@ -79,7 +67,7 @@ void sweep_views(long per_ctor, unsigned seed) {
       draw.draw(c, x, y);
       const ez_test::reference ref(c, x, y, std::numeric_limits<T>::digits);
       T got[ez_test::n_views];
-      rounded_views(construct_rounded(c, x, y), got);
+      ez_test::views_of(construct_rounded(c, x, y), got);
       for (int v = 0; v < ez_test::n_views; ++v) {
         const T want = ez_test::round_to<T>(ref.val[v].v);
         if (std::isinf(want)) continue;  // beyond the largest finite value: not a result

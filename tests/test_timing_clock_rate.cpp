@@ -22,6 +22,7 @@
 #include <eigenzeit/timing/potential.hpp>
 
 #include "support/reference.hpp"
+#include "support/policy_checks.hpp"
 
 using ez_test::mp;
 using ez_test::type_name;
@@ -284,28 +285,6 @@ TEST_CASE("argument types: integers promote to double, mixed types to the common
   CHECK(eigenzeit::clock_rate_offset(3874, 0) == eigenzeit::clock_rate_offset(3874.0, 0.0));
 }
 
-namespace {
-
-/// One invalid input through the three policies: throw names the function and the value,
-/// NaN policy returns NaN, errno policy sets EDOM and returns NaN.
-template <class F>
-void check_all_policies(const std::string& value_text, F call) {
-  INFO("bad input ", value_text);
-  try {
-    call(eigenzeit::throw_policy());
-    FAIL_CHECK("no exception");
-  } catch (const std::domain_error& e) {
-    const std::string what = e.what();
-    CHECK(what.find("clock_rate_offset") != std::string::npos);
-    CHECK(what.find(value_text) != std::string::npos);
-  }
-  CHECK(std::isnan(call(eigenzeit::nan_policy())));
-  errno = 0;
-  CHECK(std::isnan(call(eigenzeit::errno_policy())));
-  CHECK(errno == EDOM);
-}
-
-}  // namespace
 
 TEST_CASE("bad input: domain errors under every policy") {
   const double nan = std::numeric_limits<double>::quiet_NaN();
@@ -318,7 +297,7 @@ TEST_CASE("bad input: domain errors under every policy") {
                                                    {299792458.0, "speed = 299792458 m/s"},
                                                    {3e8, "300000000"}};
   for (const auto& [v, text] : speeds)
-    check_all_policies(text, [v = v](auto p) { return eigenzeit::clock_rate_offset(v, 1e7, p); });
+    ez_test::check_all_policies("clock_rate_offset", text, [v = v](auto p) { return eigenzeit::clock_rate_offset(v, 1e7, p); });
   // Potential: negative (the wrong sign convention), NaN, infinite, at and beyond c^2
   // (89875517873681776 is the first double above c^2 = 89875517873681764).
   const std::pair<double, const char*> potentials[] = {{-62636856.0, "U = -62636856 m^2/s^2"},
@@ -328,12 +307,12 @@ TEST_CASE("bad input: domain errors under every policy") {
                                                        {89875517873681776.0, "89875517873681776"},
                                                        {1e17, "1e+17"}};
   for (const auto& [U, text] : potentials)
-    check_all_policies(text, [U = U](auto p) { return eigenzeit::clock_rate_offset(1000.0, U, p); });
+    ez_test::check_all_policies("clock_rate_offset", text, [U = U](auto p) { return eigenzeit::clock_rate_offset(1000.0, U, p); });
   // A combination outside the weak-field model: d(tau)/dt would be <= 0.
-  check_all_policies("potential", [](auto p) {
+  ez_test::check_all_policies("clock_rate_offset", "potential", [](auto p) {
     return eigenzeit::clock_rate_offset(0.999 * 299792458.0, 0.9 * 299792458.0 * 299792458.0, p);
   });
-  check_all_policies("-2.", [](auto p) {
+  ez_test::check_all_policies("clock_rate_offset", "-2.", [](auto p) {
     return eigenzeit::clock_rate_offset(0.999 * 299792458.0, 0.9 * 299792458.0 * 299792458.0, p);
   });
 }

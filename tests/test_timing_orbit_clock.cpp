@@ -21,6 +21,7 @@
 #include <eigenzeit/timing/orbit_clock.hpp>
 
 #include "support/reference.hpp"
+#include "support/policy_checks.hpp"
 
 using eigenzeit::kepler_orbit;
 using ez_test::mp;
@@ -340,26 +341,6 @@ TEST_CASE("the periodic term is the integral of the rate's periodic part") {
   }
 }
 
-namespace {
-
-template <class F>
-void check_all_policies(const char* function, const std::string& text, F call) {
-  INFO(function, " bad input ", text);
-  try {
-    call(eigenzeit::throw_policy());
-    FAIL_CHECK("no exception");
-  } catch (const std::domain_error& e) {
-    const std::string what = e.what();
-    CHECK(what.find(function) != std::string::npos);
-    CHECK(what.find(text) != std::string::npos);
-  }
-  CHECK(std::isnan(call(eigenzeit::nan_policy())));
-  errno = 0;
-  CHECK(std::isnan(call(eigenzeit::errno_policy())));
-  CHECK(errno == EDOM);
-}
-
-}  // namespace
 
 TEST_CASE("bad input: domain errors under every policy") {
   const double nan = std::numeric_limits<double>::quiet_NaN();
@@ -374,22 +355,22 @@ TEST_CASE("bad input: domain errors under every policy") {
       {O{2.6e7, 0.1, 0.0}, "GM = 0"},              {O{2.6e7, 0.1, -gm}, "GM = -3"},
       {O{2.6e7, 0.1, nan}, "GM = nan"}};
   for (const auto& [o, text] : bad) {
-    check_all_policies("orbit_rate_offset", text, [o = o](auto p) { return eigenzeit::orbit_rate_offset(o, p); });
-    check_all_policies("orbit_rate_offset_tt", text, [o = o](auto p) { return eigenzeit::orbit_rate_offset_tt(o, p); });
-    check_all_policies("orbit_rate_terms", text, [o = o](auto p) { return eigenzeit::orbit_rate_terms(o, p).total; });
-    check_all_policies("orbit_periodic_amplitude", text, [o = o](auto p) { return eigenzeit::orbit_periodic_amplitude(o, p); });
-    check_all_policies("orbit_periodic_offset", text, [o = o](auto p) { return eigenzeit::orbit_periodic_offset(o, 1.0, p); });
+    ez_test::check_all_policies("orbit_rate_offset", text, [o = o](auto p) { return eigenzeit::orbit_rate_offset(o, p); });
+    ez_test::check_all_policies("orbit_rate_offset_tt", text, [o = o](auto p) { return eigenzeit::orbit_rate_offset_tt(o, p); });
+    ez_test::check_all_policies("orbit_rate_terms", text, [o = o](auto p) { return eigenzeit::orbit_rate_terms(o, p).total; });
+    ez_test::check_all_policies("orbit_periodic_amplitude", text, [o = o](auto p) { return eigenzeit::orbit_periodic_amplitude(o, p); });
+    ez_test::check_all_policies("orbit_periodic_offset", text, [o = o](auto p) { return eigenzeit::orbit_periodic_offset(o, 1.0, p); });
   }
   const O good{2.6e7, 0.01, gm};
   for (double E : {nan, inf, -inf}) {
-    check_all_policies("orbit_periodic_offset", "eccentric anomaly",
+    ez_test::check_all_policies("orbit_periodic_offset", "eccentric anomaly",
                        [good, E](auto p) { return eigenzeit::orbit_periodic_offset(good, E, p); });
   }
   using P = std::array<double, 3>;
-  check_all_policies("orbit_periodic_offset", "position component = nan", [nan](auto p) {
+  ez_test::check_all_policies("orbit_periodic_offset", "position component = nan", [nan](auto p) {
     return eigenzeit::orbit_periodic_offset(P{nan, 0.0, 0.0}, P{1.0, 0.0, 0.0}, p);
   });
-  check_all_policies("orbit_periodic_offset", "velocity component = inf", [inf](auto p) {
+  ez_test::check_all_policies("orbit_periodic_offset", "velocity component = inf", [inf](auto p) {
     return eigenzeit::orbit_periodic_offset(P{1.0, 0.0, 0.0}, P{0.0, inf, 0.0}, p);
   });
   // Every member of the budget is NaN under the NaN policy.

@@ -19,6 +19,7 @@
 #include <eigenzeit/timing/potential.hpp>
 
 #include "support/reference.hpp"
+#include "support/policy_checks.hpp"
 
 using ez_test::mp;
 using ez_test::type_name;
@@ -203,26 +204,6 @@ TEST_CASE_TEMPLATE("symmetries and limits", T, float, double, long double) {
   CHECK(pm({r, sub, -sub}) == u);
 }
 
-namespace {
-
-template <class F>
-void check_all_policies(const char* function, const std::string& text, F call) {
-  INFO(function, " bad input ", text);
-  try {
-    call(eigenzeit::throw_policy());
-    FAIL_CHECK("no exception");
-  } catch (const std::domain_error& e) {
-    const std::string what = e.what();
-    CHECK(what.find(function) != std::string::npos);
-    CHECK(what.find(text) != std::string::npos);
-  }
-  CHECK(std::isnan(call(eigenzeit::nan_policy())));
-  errno = 0;
-  CHECK(std::isnan(call(eigenzeit::errno_policy())));
-  CHECK(errno == EDOM);
-}
-
-}  // namespace
 
 TEST_CASE("bad input: domain errors under every policy") {
   const double nan = std::numeric_limits<double>::quiet_NaN();
@@ -236,23 +217,23 @@ TEST_CASE("bad input: domain errors under every policy") {
       {P{1.0, -inf, 1.0}, "-inf"},            {P{1e200, 0.0, 0.0}, "squared distance"},
       {P{1e-200, 0.0, 0.0}, "squared distance"}};
   for (const auto& [p, text] : bad_positions) {
-    check_all_policies("point_mass_potential", text, [&pm, p = p](auto pol) { return pm(p, pol); });
-    check_all_policies("j2_potential", text, [&j2, p = p](auto pol) { return j2(p, pol); });
+    ez_test::check_all_policies("point_mass_potential", text, [&pm, p = p](auto pol) { return pm(p, pol); });
+    ez_test::check_all_policies("j2_potential", text, [&j2, p = p](auto pol) { return j2(p, pol); });
   }
   // Bad model parameters.
   const P here{7e6, 0.0, 0.0};
   for (double gm : {0.0, -3.986004418e14, nan, inf}) {
     const eigenzeit::point_mass_potential<double> m{gm};
-    check_all_policies("point_mass_potential", "GM", [m, here](auto pol) { return m(here, pol); });
+    ez_test::check_all_policies("point_mass_potential", "GM", [m, here](auto pol) { return m(here, pol); });
     const eigenzeit::j2_potential<double> m2{gm, 6378136.6, 1e-3};
-    check_all_policies("j2_potential", "GM", [m2, here](auto pol) { return m2(here, pol); });
+    ez_test::check_all_policies("j2_potential", "GM", [m2, here](auto pol) { return m2(here, pol); });
   }
   for (double radius : {-1.0, nan, inf}) {
     const eigenzeit::j2_potential<double> m{3.986004418e14, radius, 1e-3};
-    check_all_policies("j2_potential", "radius", [m, here](auto pol) { return m(here, pol); });
+    ez_test::check_all_policies("j2_potential", "radius", [m, here](auto pol) { return m(here, pol); });
   }
   for (double jj : {nan, inf}) {
     const eigenzeit::j2_potential<double> m{3.986004418e14, 6378136.6, jj};
-    check_all_policies("j2_potential", "J2", [m, here](auto pol) { return m(here, pol); });
+    ez_test::check_all_policies("j2_potential", "J2", [m, here](auto pol) { return m(here, pol); });
   }
 }

@@ -108,8 +108,9 @@ inline eigenzeit::speed<T> construct(ctor c, T x, T y) {
   return S();
 }
 
-template <class T>
-inline void views_of(const eigenzeit::speed<T>& s, T out[n_views]) {
+/// The eight views of a speed<T> (or of a rounded_speed<T>, which has the same ones).
+template <class S, class T>
+inline void views_of(const S& s, T out[n_views]) {
   out[ez_test::v_beta] = s.beta();
   out[ez_test::v_deficit] = s.beta_deficit();
   out[ez_test::v_gamma] = s.gamma();

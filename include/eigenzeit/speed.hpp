@@ -519,19 +519,22 @@ class speed {
     // speed and gamma nearly unchanged (the 1/E term is below 4e-4 of E for eta > 4).
     const T big = detail::exp_(eta);
     if (!isfinite(big)) {
-      // e^eta overflows while gamma = e^eta / 2 (1 + e^(-2 eta)) may not: E/2 = exp(eta - ln 2),
-      // with ln 2 as a double-word constant, so that r = eta - ln 2 is exact to ~u^2 (the
-      // two_sum) and exp(r.hi + r.lo) = exp(r.hi) (1 + r.lo): exp's one rounding, as above.
+      // e^eta overflows while gamma = e^eta / 2 (1 + e^(-2 eta)) may not: E/2 = 2 exp(eta - 2 ln 2),
+      // with ln 2 as a double-word constant, so that r = eta - 2 ln 2 is exact to ~u^2 (the
+      // two_sum) and exp(r.hi + r.lo) = exp(r.hi) (1 + r.lo): exp's one rounding, as above;
+      // exp(r.hi) itself cannot overflow, so only a true overflow of gamma is refused.
       // 1/E is below 2^-1000 of E here: gamma = proper speed = E/2, and 1 - beta underflows.
       const numeric::dd<T> ln2 = detail::ln2_words<T>();
-      numeric::dd<T> r = numeric::two_sum(eta, -ln2.hi);
-      r = numeric::fast_two_sum(r.hi, r.lo - ln2.lo);
-      const T half = detail::exp_(r.hi);
-      if (!isfinite(half))
+      numeric::dd<T> r = numeric::two_sum(eta, -2 * ln2.hi);
+      r = numeric::fast_two_sum(r.hi, r.lo - 2 * ln2.lo);
+      const T quarter = detail::exp_(r.hi);
+      const numeric::dd<T> q = numeric::fast_two_sum(quarter, quarter * r.lo);
+      const numeric::dd<T> half{2 * q.hi, 2 * q.lo};  // exact doubling, after the low word
+      if (!isfinite(half.hi))
         return invalid("eigenzeit::speed<%1%>::from_rapidity(%1%)",
                        "rapidity = %1% gives a Lorentz factor beyond the largest finite value",
                        eta, pol);
-      return from_proper_speed_dd(numeric::fast_two_sum(half, half * r.lo));
+      return from_proper_speed_dd(half);
     }
     numeric::dd<T> e{big, T(0)};
     numeric::dd<T> u = numeric::dd_add(e, numeric::dd_div(numeric::dd<T>{T(-1), T(0)}, e));
@@ -570,11 +573,11 @@ class speed {
     // underflow, an exact remainder, whatever the two exponents.
     int e = 0;
     const numeric::dd<T> r = ratio(kinetic, mass, e);
-    if (e > std::numeric_limits<T>::max_exponent - 1)
+    const numeric::dd<T> m = numeric::dd_ldexp(r, e);
+    if (!isfinite(m.hi) || !isfinite(m.hi + m.lo))
       return invalid("eigenzeit::speed<%1%>::from_kinetic_energy(%1%, mass)",
                      "kinetic energy = %1% over the mass gives a Lorentz factor beyond the "
                      "largest finite value", kinetic, pol);
-    const numeric::dd<T> m = numeric::dd_ldexp(r, e);
     if (m.hi < numeric::rescale_threshold<T>()) {
       // K/m so small that it may leave the normal range while beta = sqrt(2 K/m) does not:
       // beta = sqrt(2 r 2^e) with the exponent halved exactly (2 r or 4 r under the root so
@@ -599,11 +602,11 @@ class speed {
     if (momentum == 0) return speed();
     int e = 0;
     const numeric::dd<T> r = ratio(momentum, mass, e);
-    if (e > std::numeric_limits<T>::max_exponent - 1)
+    const numeric::dd<T> u = numeric::dd_ldexp(r, e);
+    if (!isfinite(u.hi) || !isfinite(u.hi + u.lo))
       return invalid("eigenzeit::speed<%1%>::from_momentum(%1%, mass)",
                      "momentum = %1% over the mass gives a proper speed beyond the largest "
                      "finite value", momentum, pol);
-    const numeric::dd<T> u = numeric::dd_ldexp(r, e);
     return from_proper_speed_dd(u);
   }
 

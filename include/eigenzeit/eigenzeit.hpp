@@ -22,5 +22,8 @@
 #include <eigenzeit/timing/potential.hpp>
 #include <eigenzeit/timing/orbit_clock.hpp>
 #include <eigenzeit/timing/trajectory.hpp>
+#include <eigenzeit/timing/proper_time.hpp>
+#include <eigenzeit/timing/accelerated.hpp>
+#include <eigenzeit/timing/decay.hpp>
 
 #endif

@@ -6,6 +6,7 @@
 
 #include <cerrno>
 #include <cmath>
+#include <cstdio>
 #include <stdexcept>
 #include <string>
 
@@ -32,6 +33,23 @@ void check_all_policies(const char* function, const std::string& text, F call) {
   errno = 0;
   CHECK(isnan(call(eigenzeit::errno_policy())));
   CHECK(errno == EDOM);
+}
+
+/// The same for a routine of one argument: call(bad, policy).  The message must contain the
+/// value as Boost prints it (17 significant digits, "nan", "inf").
+template <class F>
+void check_all_policies(const char* function, double bad, F call) {
+  std::string text;
+  if (std::isnan(bad)) {
+    text = "nan";
+  } else if (std::isinf(bad)) {
+    text = "inf";
+  } else {
+    char buf[64];
+    std::snprintf(buf, sizeof buf, "%.17g", bad);
+    text = buf;
+  }
+  check_all_policies(function, text, [&call, bad](auto pol) { return call(bad, pol); });
 }
 
 }  // namespace ez_test

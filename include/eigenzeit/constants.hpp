@@ -21,6 +21,7 @@
 #include <type_traits>
 
 #include <eigenzeit/config.hpp>
+#include <eigenzeit/numeric/eft.hpp>
 
 namespace eigenzeit {
 namespace constants {
@@ -49,6 +50,14 @@ inline T speed_of_light() { return T(299792458); }
 /// Seconds per day, 86 400 s, exact (the day of Julian dates) [IERS ch. 10].
 template <class T = double>
 inline T seconds_per_day() { return T(86400); }
+
+/// c as a double-word number hi + lo, exact in every type with at least 14 bits (c has 28
+/// significant bits): hi = c rounded to T, lo = the integer remainder.
+template <class T = double>
+inline numeric::dd<T> speed_of_light_words() {
+  const T hi = speed_of_light<T>();
+  return {hi, T(299792458LL - static_cast<long long>(hi))};
+}
 
 // ---- IAU/IERS defining constants of the time scales [IERS ch. 10] --------------------------
 

@@ -68,12 +68,6 @@ using numeric::dd;
 /// c = 299 792 458 m/s as hi + lo in T: exact for every type with at least 14 bits (c has 28
 /// significant bits; hi holds the first `digits` of them, lo the rest).
 template <class T>
-inline dd<T> light_words() {
-  const T hi = constants::speed_of_light<T>();
-  return {hi, T(299792458LL - static_cast<long long>(hi))};
-}
-
-template <class T>
 inline dd<T> half(dd<T> v) {
   return {v.hi / 2, v.lo / 2};
 }
@@ -88,14 +82,6 @@ template <class T>
 inline dd<T> square(dd<T> v) {
   const dd<T> p = numeric::two_prod(v.hi, v.hi);
   return numeric::fast_two_sum(p.hi, p.lo + 2 * v.hi * v.lo);
-}
-
-/// v 2^e, both words (exact wherever the words stay normal).
-template <class T>
-inline dd<T> scaled(dd<T> v, int e) {
-  if (e == 0) return v;
-  using std::ldexp;
-  return {T(ldexp(v.hi, e)), T(ldexp(v.lo, e))};
 }
 
 /// Upper end of the series tier (see the top of the file): phi <= 4.
@@ -192,7 +178,7 @@ inline series_point<T> series_point_of(T a, T tau, dd<T> c, dd<T> phi) {
   const dd<T> p = numeric::two_prod(mt, Phi.hi);
   const dd<T> Wh = half(numeric::fast_two_sum(p.hi, p.lo + mt * Phi.lo));
   const int e1 = ea + et;
-  return {Phi, Wh, scaled(square(Phi), 2 * e1), e1, e1 + et};
+  return {Phi, Wh, numeric::dd_ldexp(square(Phi), 2 * e1), e1, e1 + et};
 }
 
 /// t - tau = tau phi^2 F_3 / 6 = (Wh / 3) Phi F_3 2^(e1 + e2), as a double-word number.
@@ -200,13 +186,13 @@ template <class T>
 inline dd<T> lag_series(const series_point<T>& s) {
   const dd<T> w3 = numeric::dd_div(s.wh, dd<T>{T(3), T(0)});
   const dd<T> v = numeric::dd_mul(numeric::dd_mul(w3, s.phi), series<3>(s.z));
-  return scaled(v, s.e1 + s.e2);
+  return numeric::dd_ldexp(v, s.e1 + s.e2);
 }
 
 /// x = c tau phi F_2 / 2 = c Wh F_2 2^e2, as a double-word number.
 template <class T>
 inline dd<T> distance_series(const series_point<T>& s, dd<T> c) {
-  return scaled(numeric::dd_mul(numeric::dd_mul(c, s.wh), series<2>(s.z)), s.e2);
+  return numeric::dd_ldexp(numeric::dd_mul(numeric::dd_mul(c, s.wh), series<2>(s.z)), s.e2);
 }
 
 /// The speed at a series point (phi <= 4).  speed<T> is built from one rounded input, and
@@ -220,8 +206,8 @@ inline dd<T> distance_series(const series_point<T>& s, dd<T> c) {
 template <class T, class Policy>
 inline speed<T> speed_from_series(const series_point<T>& s, const Policy& pol) {
   const dd<T> one{T(1), T(0)};
-  const dd<T> m = scaled(half(numeric::dd_mul(square(s.phi), series<2>(s.z))), 2 * s.e1);
-  const dd<T> u = scaled(
+  const dd<T> m = numeric::dd_ldexp(half(numeric::dd_mul(square(s.phi), series<2>(s.z))), 2 * s.e1);
+  const dd<T> u = numeric::dd_ldexp(
       numeric::dd_add(s.phi, numeric::dd_div(numeric::dd_mul(numeric::dd_mul(s.phi, s.z),
                                                              series<3>(s.z)),
                                              dd<T>{T(6), T(0)})),
@@ -334,7 +320,7 @@ class uniform_acceleration {
   /// SI units: a in m/s^2; times in seconds, lengths in metres; c = 299 792 458 m/s exactly.
   template <class Policy = throw_policy>
   static uniform_acceleration si(T a, const Policy& pol = Policy()) {
-    return make(a, detail::hyperbolic::light_words<T>(),
+    return make(a, constants::speed_of_light_words<T>(),
                 "eigenzeit::uniform_acceleration<%1%>::si(%1%)", pol);
   }
 

@@ -45,16 +45,6 @@ namespace eigenzeit {
 
 namespace detail {
 
-/// c = 299 792 458 m/s as an unevaluated sum hi + lo in T, exact for every binary type with
-/// at least 14 bits (c has 28 significant bits; hi holds the first `digits`, lo the rest).
-template <class T>
-inline numeric::dd<T> speed_of_light_words() {
-  constexpr long long c_exact = 299792458LL;
-  const T hi = constants::speed_of_light<T>();
-  const long long hi_int = static_cast<long long>(hi);
-  return {hi, T(c_exact - hi_int)};
-}
-
 /// c^2 and 1/c^2 as double-word numbers.  c^2 = 89 875 517 873 681 764 has 57 significant
 /// bits: exact in two words of any type with >= 29 bits, and within 2^-48 relative in two
 /// floats.  1/c^2 from dd_div: relative error below 4u^2.  Built-in types compute them
@@ -68,7 +58,7 @@ struct light_powers {
 
 template <class T>
 inline light_powers<T> make_light_powers() {
-  const numeric::dd<T> c = speed_of_light_words<T>();
+  const numeric::dd<T> c = constants::speed_of_light_words<T>();
   const numeric::dd<T> c2 = numeric::dd_mul(c, c);
   const numeric::dd<T> inv = numeric::dd_div(numeric::dd<T>{T(1), T(0)}, c2);
   return {c2, inv};
@@ -133,7 +123,7 @@ inline numeric::promote_t<std::common_type_t<T1, T2>> clock_rate_offset(
   const R v = R(speed_m_per_s);
   const R U = R(potential);
   const detail::light_powers<R> k = detail::light_powers_of<R>();
-  if (!(v >= R(0)) || !detail::less_than_words(v, detail::speed_of_light_words<R>()))
+  if (!(v >= R(0)) || !detail::less_than_words(v, constants::speed_of_light_words<R>()))
     return numeric::domain_error<R>(
         fn, "speed = %1% m/s, but it must lie in [0, c) with c = 299792458 m/s", v, pol);
   if (!(U >= R(0)) || !detail::less_than_words(U, k.c2))

@@ -35,6 +35,8 @@
 
 #include <eigenzeit/speed.hpp>
 
+#include "batch.hpp"
+
 namespace {
 
 constexpr std::size_t kBatch = 4096;
@@ -152,31 +154,8 @@ const std::vector<double>& hard_beta() {
 
 // ---- the batch loop --------------------------------------------------------------------------
 
-/// out[i] = f(in[i]) for the whole batch, once per iteration.  The input is "escaped" before
-/// each pass so the compiler cannot assume it unchanged between iterations, and the output is
-/// escaped and memory clobbered afterwards so no store is dropped.
-template <class Out, class In, class F>
-void run_batch(benchmark::State& state, const std::vector<In>& in, F f) {
-  std::vector<Out> out(in.size());
-  const In* src = in.data();
-  Out* dst = out.data();
-  const std::size_t n = in.size();
-  for (auto _ : state) {
-    benchmark::DoNotOptimize(src);
-    for (std::size_t i = 0; i < n; ++i) dst[i] = f(src[i]);
-    benchmark::DoNotOptimize(dst);
-    benchmark::ClobberMemory();
-  }
-  state.SetItemsProcessed(static_cast<std::int64_t>(state.iterations()) *
-                          static_cast<std::int64_t>(n));
-}
-
-template <class Out, class In, class F>
-void add(const std::string& name, const std::vector<In>& (*inputs)(), F f) {
-  benchmark::RegisterBenchmark(name.c_str(), [inputs, f](benchmark::State& state) {
-    run_batch<Out>(state, inputs(), f);
-  });
-}
+using ez_bench::add;
+using ez_bench::run_batch;
 
 // ---- registrations -----------------------------------------------------------------------------
 

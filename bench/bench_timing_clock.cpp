@@ -35,6 +35,8 @@
 #include <eigenzeit/timing/trajectory.hpp>
 #include <eigenzeit/timing/two_part_time.hpp>
 
+#include "batch.hpp"
+
 namespace {
 
 constexpr std::size_t kBatch = 4096;
@@ -66,28 +68,8 @@ const std::vector<state>& tiny_states() {
   return data;
 }
 
-/// out[i] = f(in[i]) for the batch, once per iteration (see bench_speed.cpp).
-template <class F>
-void run_batch(benchmark::State& st, const std::vector<state>& in, F f) {
-  std::vector<double> out(in.size());
-  const state* src = in.data();
-  double* dst = out.data();
-  const std::size_t n = in.size();
-  for (auto _ : st) {
-    benchmark::DoNotOptimize(src);
-    for (std::size_t i = 0; i < n; ++i) dst[i] = f(src[i]);
-    benchmark::DoNotOptimize(dst);
-    benchmark::ClobberMemory();
-  }
-  st.SetItemsProcessed(static_cast<std::int64_t>(st.iterations()) * static_cast<std::int64_t>(n));
-}
-
-template <class F>
-void add(const std::string& name, const std::vector<state>& (*inputs)(), F f) {
-  benchmark::RegisterBenchmark(name.c_str(), [inputs, f](benchmark::State& st) {
-    run_batch(st, inputs(), f);
-  });
-}
+using ez_bench::add;
+using ez_bench::run_batch;
 
 void add_rates(const std::string& suffix, const std::vector<state>& (*inputs)()) {
   constexpr double c2 = 299792458.0 * 299792458.0;

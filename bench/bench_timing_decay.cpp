@@ -27,6 +27,8 @@
 #include <eigenzeit/timing/decay.hpp>
 #include <eigenzeit/timing/proper_time.hpp>
 
+#include "batch.hpp"
+
 namespace {
 
 constexpr std::size_t kBatch = 4096;
@@ -70,29 +72,8 @@ const std::vector<sample>& slow_set() {
   return data;
 }
 
-/// out[i] = f(in[i]) over the batch, once per iteration (see bench_speed.cpp).
-template <class F>
-void run_batch(benchmark::State& state, const std::vector<sample>& in, F f) {
-  std::vector<double> out(in.size());
-  const sample* src = in.data();
-  double* dst = out.data();
-  const std::size_t n = in.size();
-  for (auto _ : state) {
-    benchmark::DoNotOptimize(src);
-    for (std::size_t i = 0; i < n; ++i) dst[i] = f(src[i]);
-    benchmark::DoNotOptimize(dst);
-    benchmark::ClobberMemory();
-  }
-  state.SetItemsProcessed(static_cast<std::int64_t>(state.iterations()) *
-                          static_cast<std::int64_t>(n));
-}
-
-template <class F>
-void add(const std::string& name, const std::vector<sample>& (*inputs)(), F f) {
-  benchmark::RegisterBenchmark(name.c_str(), [inputs, f](benchmark::State& state) {
-    run_batch(state, inputs(), f);
-  });
-}
+using ez_bench::add;
+using ez_bench::run_batch;
 
 double naive_gamma(double b) { return 1.0 / std::sqrt(1.0 - b * b); }
 

@@ -610,6 +610,51 @@ class speed {
     return from_proper_speed_dd(u);
   }
 
+  // ---- from double-word values --------------------------------------------------------------
+  // For code that carries extra precision (the frames layer builds boosts from them): the
+  // value is hi + lo, |lo| <= ulp(hi) / 2, and the speed is built as accurately as from an
+  // exact input of twice the precision.
+
+  /// From beta = hi + lo in [0, 1).
+  template <class Policy = throw_policy>
+  static speed from_beta_words(numeric::dd<T> beta, const Policy& pol = Policy()) {
+    const T sum = beta.hi + beta.lo;
+    if (!(beta.hi >= T(0) && sum >= T(0) && sum < T(1)))
+      return invalid("eigenzeit::speed<%1%>::from_beta_words(%1%)",
+                     "beta = %1% (high + low word), but it must lie in [0, 1)", sum, pol);
+    if (beta.hi == 0) return speed();
+    // 1 - beta from the words: 1 - hi is exact (hi in [1/2, 1)) or the sum is normalised.
+    numeric::dd<T> d = numeric::two_sum(T(1), -beta.hi);
+    d = numeric::fast_two_sum(d.hi, d.lo - beta.lo);
+    return from_beta_dd(beta, d);
+  }
+
+  /// From gamma - 1 = hi + lo in [0, inf).
+  template <class Policy = throw_policy>
+  static speed from_gamma_m1_words(numeric::dd<T> gamma_m1, const Policy& pol = Policy()) {
+    using std::isfinite;
+    const T sum = gamma_m1.hi + gamma_m1.lo;
+    if (!(gamma_m1.hi >= T(0) && sum >= T(0)) || !isfinite(sum))
+      return invalid("eigenzeit::speed<%1%>::from_gamma_m1_words(%1%)",
+                     "gamma - 1 = %1% (high + low word), but it must be finite and >= 0", sum,
+                     pol);
+    if (gamma_m1.hi == 0) return speed();
+    return from_gamma_m1_dd(gamma_m1, add_one(gamma_m1));
+  }
+
+  /// From the proper speed beta gamma = hi + lo in [0, inf).
+  template <class Policy = throw_policy>
+  static speed from_proper_speed_words(numeric::dd<T> u, const Policy& pol = Policy()) {
+    using std::isfinite;
+    const T sum = u.hi + u.lo;
+    if (!(u.hi >= T(0) && sum >= T(0)) || !isfinite(sum))
+      return invalid("eigenzeit::speed<%1%>::from_proper_speed_words(%1%)",
+                     "proper speed = %1% (high + low word), but it must be finite and >= 0", sum,
+                     pol);
+    if (u.hi == 0) return speed();
+    return from_proper_speed_dd(u);
+  }
+
   // ---- the same constructors in the correctly rounded mode --------------------------------
   // Given eigenzeit::correctly_rounded as the policy, each named constructor returns a
   // rounded_speed<T>: the same speed, and the input it came from, so that every view can be

@@ -16,6 +16,11 @@
 #include <eigenzeit/numeric/guarded.hpp>
 #include <eigenzeit/constants.hpp>
 #include <eigenzeit/speed.hpp>
+#include <eigenzeit/frames/vectors.hpp>
+#include <eigenzeit/frames/lorentz_boost.hpp>
+#include <eigenzeit/frames/compose.hpp>
+#include <eigenzeit/frames/momentum.hpp>
+#include <eigenzeit/frames/invariant_mass.hpp>
 #include <eigenzeit/timing/two_part_time.hpp>
 #include <eigenzeit/timing/time_scales.hpp>
 #include <eigenzeit/timing/clock_rate.hpp>

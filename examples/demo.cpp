@@ -9,7 +9,14 @@
 // orbits (timing/orbit_clock.hpp) and checks each against one day of samples integrated by
 // timing/trajectory.hpp.  The orbits are invented; GM_E and L_G are the IERS values of
 // constants.hpp.
+//
+// A third section, "invented beamline", follows particles of an invented test beam through the
+// frames layer: a boost to a decaying particle's rest frame, a photon pair at a tiny opening
+// angle, and two boosts composed with their Wigner rotation.  The beamline and its figures are
+// invented; the electron and proton rest energies are CODATA 2018 values.
 #include <mpfr.h>
+
+#include <boost/multiprecision/mpfr.hpp>
 
 #include <array>
 #include <cmath>
@@ -163,6 +170,76 @@ void invented_constellation() {
               "follow the governing interface specifications and do their own validation.\n");
 }
 
+
+// ---- invented beamline ------------------------------------------------------------------------
+
+using mpf = boost::multiprecision::mpfr_float;
+
+/// Correct decimal digits of `got` against `ref` (17 = exact to double).
+double digits_of(double got, const mpf& ref) {
+  if (ref == 0) return got == 0 ? 17.0 : 0.0;
+  const double rel = static_cast<double>(abs((mpf(got) - ref) / ref));
+  return rel == 0 ? 17.0 : std::max(0.0, std::min(17.0, -std::log10(rel)));
+}
+
+void beam_row(const char* what, double ours, double naive, const mpf& ref) {
+  std::printf("  %-34s %-24.17g %-24.17g %4.1f / %4.1f digits\n", what, ours, naive, digits_of(ours, ref),
+              digits_of(naive, ref));
+}
+
+void invented_beamline() {
+  mpf::default_precision(160);
+  const double proton = 938.27208816;   // MeV, CODATA 2018
+  const double electron = 0.51099895;   // MeV, CODATA 2018 (0.51099895000)
+  std::printf("\n---- invented beamline \"Kestrel\" (all figures invented) ----\n");
+  std::printf("  %-34s %-24s %-24s %s\n", "quantity", "eigenzeit", "textbook formula", "correct digits (ours / textbook)");
+
+  // 1. A 7 TeV proton of the invented beam, seen from its own rest frame (a boost with the
+  //    proton's velocity): it must be at rest there.  momentum::boosted carries the energy to
+  //    twice the precision; the textbook 4x4 matrix built from rounded gamma and beta gamma
+  //    leaves a momentum of its own rounding errors.
+  const eigenzeit::momentum<double> p(proton, {1234.5, -2345.6, 6.9999e6});
+  const eigenzeit::lorentz_boost<double> to_rest(p.p(), p.speed());
+  const eigenzeit::vec3<double> rest = p.boosted(to_rest).p();
+  // Textbook: L = [[g, -bg n^T], [-bg n, 1 + (g - 1) n n^T]] applied to (E, p).
+  const double e = p.energy(), g = e / proton, bg = p.p_norm() / proton;
+  const eigenzeit::vec3<double> n = p.p() / p.p_norm();
+  const double a = eigenzeit::dot(n, p.p());
+  const eigenzeit::vec3<double> naive = p.p() + ((g - 1) * a - bg * e) * n;
+  std::printf("  %-34s %-24.3g %-24.3g (exact: 0)\n", "proton momentum at rest, |p| (MeV)",
+              eigenzeit::norm(rest), eigenzeit::norm(naive));
+
+  // 2. Two photons from an invented source, 50 GeV each, 1e-8 rad apart: their pair mass.
+  const double angle = 1e-8;
+  const eigenzeit::momentum<double> g1(0.0, {0.0, 0.0, 5.0e4});
+  const eigenzeit::momentum<double> g2(0.0, {5.0e4 * std::sin(angle), 0.0, 5.0e4 * std::cos(angle)});
+  const double esum = g1.energy() + g2.energy();
+  const double pz = g1.p().z + g2.p().z, px = g2.p().x;
+  const double naive_m2 = esum * esum - (px * px + pz * pz);
+  const mpf mx = mpf(g2.p().x), mz = mpf(g2.p().z);
+  const mpf e2 = sqrt(mx * mx + mz * mz);
+  const mpf ref_m = sqrt(2 * (mpf(5.0e4) * e2 - mpf(5.0e4) * mz));
+  beam_row("photon pair mass at 1e-8 rad (MeV)", eigenzeit::invariant_mass(g1, g2),
+           naive_m2 > 0 ? std::sqrt(naive_m2) : 0.0, ref_m);
+
+  // 3. An electron of 2 eV kinetic energy-scale momentum (invented): kinetic energy.
+  const eigenzeit::momentum<double> slow(electron, {1.0e-3, 0.0, 0.0});
+  const mpf ek = sqrt(mpf(electron) * electron + mpf(1.0e-3) * 1.0e-3) - electron;
+  beam_row("slow electron kinetic energy (MeV)", slow.kinetic_energy(),
+           std::sqrt(electron * electron + 1e-6) - electron, ek);
+
+  // 4. Two boosts of an invented transfer line, 0.9 c along x then 0.9 c along y: one boost
+  //    and a Wigner rotation of 2 atan(...) about z.
+  const auto first = eigenzeit::lorentz_boost<double>::from_velocity({0.9, 0.0, 0.0});
+  const auto second = eigenzeit::lorentz_boost<double>::from_velocity({0.0, 0.9, 0.0});
+  const auto c = eigenzeit::compose(first, second);
+  std::printf("  composed: gamma %.17g, Wigner rotation %.17g rad about (%g, %g, %g)\n",
+              c.boost.speed().gamma(), c.rotation.angle, c.rotation.axis.x, c.rotation.axis.y,
+              c.rotation.axis.z);
+  std::printf("All beamline figures are invented and serve only to show where the textbook "
+              "formulas lose digits.\n");
+}
+
 }  // namespace
 
 int main() {
@@ -229,5 +306,6 @@ int main() {
   std::printf("\nAll figures above come from an invented scenario and serve only to show where "
               "the textbook formulas lose digits.\n");
   invented_constellation();
+  invented_beamline();
   return 0;
 }

@@ -165,9 +165,9 @@ inline numeric::guarded_result<T> invariant_mass(const Range& momenta,
     // Error bound on m2: every double-word operation above errs by at most ~4 u^2 of its
     // operands' magnitude, each accumulation step by u^2 (|acc| + |term|); with S = abs_sum
     // (>= E and >= each |P component|) all magnitudes are below S^2, and there are at most
-    // 8 n + 16 such steps.  u m2 for the final rounding.  Doubled for margin.
+    // 8 n + 16 such steps (that part doubled for margin); u |m2| for the final rounding.
     const W u = W(std::numeric_limits<W>::epsilon() / 2);
-    const W m2_error = W(2 * (W(8 * W(n) + 16) * u * u * abs_sum * abs_sum + u * abs(m2)));
+    const W m2_error = W(2 * W(8 * W(n) + 16) * u * u * abs_sum * abs_sum + u * abs(m2));
     W value, error;
     if (m2 <= m2_error) {
       // Consistent with zero (or a rounding below it): the mass is at most sqrt(2 m2_error).
@@ -176,8 +176,12 @@ inline numeric::guarded_result<T> invariant_mass(const Range& momenta,
     } else {
       value = sqrt(m2);
       const W low = sqrt(W(m2 - m2_error));
-      // |sqrt(m2 +- err) - sqrt(m2)| <= err / (sqrt(m2) + sqrt(m2 - err)), plus sqrt's rounding.
-      error = W(W(m2_error / (value + low)) + u * value * 2);
+      // |sqrt(m2 +- err) - sqrt(m2)| <= err / (sqrt(m2) + sqrt(m2 - err)), plus the square
+      // root's own rounding (u value for IEEE types, whose square root is correctly rounded;
+      // 2 u value allowed for the others): about 1.5 u value in all when the first term is
+      // small, so a well-conditioned event meets the default tolerance (epsilon) in T itself.
+      const W root_rounding = std::is_floating_point<W>::value ? u : W(2 * u);
+      error = W(W(m2_error / (value + low)) + root_rounding * value);
     }
     return numeric::bounded<W>{W(ldexp(value, e)), W(ldexp(error, e))};
   };

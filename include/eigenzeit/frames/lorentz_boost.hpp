@@ -188,11 +188,15 @@ class lorentz_boost {
   /// (an energy computed to twice the precision: momentum::boosted() uses it, so that an
   /// on-shell momentum is boosted as if its energy were exact).
   four_vector<T> apply(numeric::dd<T> t, const vec3<T>& r) const {
-    four_vector<T> o;
-    if (fast_) {
-      kernel_fast(t.hi, t.lo, r.x, r.y, r.z, o.t, o.x, o.y, o.z);
-    } else {
-      kernel_slow(t.hi, t.lo, r.x, r.y, r.z, o.t, o.x, o.y, o.z);
+    four_vector<T> o{T(0), r.x, r.y, r.z};
+    switch (kind_) {
+      case kind::axis: {
+        T* comp[3] = {&o.x, &o.y, &o.z};
+        kernel_axis(t.hi, t.lo, *comp[axis_], o.t, *comp[axis_]);
+        break;
+      }
+      case kind::fast: kernel_fast(t.hi, t.lo, r.x, r.y, r.z, o.t, o.x, o.y, o.z); break;
+      default: kernel_slow(t.hi, t.lo, r.x, r.y, r.z, o.t, o.x, o.y, o.z); break;
     }
     return o;
   }
@@ -214,10 +218,14 @@ class lorentz_boost {
   /// arrays): the same forms and accuracy as apply(), one branch per call (not per element),
   /// so that the loop vectorises.  The arrays may not overlap one another.
   void apply_in_place(T* t, T* x, T* y, T* z, std::size_t n) const {
-    if (fast_) {
-      for (std::size_t i = 0; i < n; ++i) kernel_fast(t[i], T(0), x[i], y[i], z[i], t[i], x[i], y[i], z[i]);
-    } else {
-      for (std::size_t i = 0; i < n; ++i) kernel_slow(t[i], T(0), x[i], y[i], z[i], t[i], x[i], y[i], z[i]);
+    switch (kind_) {
+      case kind::axis: {
+        T* comp[3] = {x, y, z};
+        axis_blocks(t, comp[axis_], n);
+        break;
+      }
+      case kind::fast: blocks<true>(t, x, y, z, n); break;
+      default: blocks<false>(t, x, y, z, n); break;
     }
   }
 
@@ -244,10 +252,49 @@ class lorentz_boost {
   numeric::dd<T> m_{T(0), T(0)};  // gamma - 1
   numeric::dd<T> u_{T(0), T(0)};  // beta gamma
   T gm1_ = T(0), bg_ = T(0);      // the same, rounded (slow kernel)
-  T d_ = T(1), e_ = T(1);         // gamma (1 - beta) and gamma (1 + beta) (fast kernel)
-  bool fast_ = false;
+  T dh_ = T(0.5), eh_ = T(0.5);   // gamma (1 - beta) / 2 and gamma (1 + beta) / 2 (light-cone form)
+  enum class kind : unsigned char { slow, fast, axis };
+  kind kind_ = kind::axis;  // axis: the direction is +-x, +-y or +-z exactly
+  int axis_ = 2;            // which one (kind::axis)
 
   static numeric::dd<T> neg(numeric::dd<T> a) { return {-a.hi, -a.lo}; }
+
+  // The batch loop in blocks of `lanes` elements copied to local arrays: the block's
+  // straight-line body has no aliasing between the four arrays, so the compiler's
+  // superword-level vectoriser packs the lanes into SIMD registers even at -O2 (where GCC 12
+  // does not version a plain loop for possible aliasing).  The tail runs element by element.
+  template <bool Fast>
+  EIGENZEIT_FORCE_INLINE void kernel(T t, T x, T y, T z, T& to, T& xo, T& yo, T& zo) const {
+    if constexpr (Fast) {
+      kernel_fast(t, T(0), x, y, z, to, xo, yo, zo);
+    } else {
+      kernel_slow(t, T(0), x, y, z, to, xo, yo, zo);
+    }
+  }
+
+  template <bool Fast>
+  void blocks(T* t, T* x, T* y, T* z, std::size_t n) const {
+    constexpr std::size_t lanes = 8;
+    std::size_t i = 0;
+    for (; i + lanes <= n; i += lanes) {
+      T bt[lanes], bx[lanes], by[lanes], bz[lanes];
+      for (std::size_t k = 0; k < lanes; ++k) {
+        bt[k] = t[i + k];
+        bx[k] = x[i + k];
+        by[k] = y[i + k];
+        bz[k] = z[i + k];
+      }
+      for (std::size_t k = 0; k < lanes; ++k)
+        kernel<Fast>(bt[k], bx[k], by[k], bz[k], bt[k], bx[k], by[k], bz[k]);
+      for (std::size_t k = 0; k < lanes; ++k) {
+        t[i + k] = bt[k];
+        x[i + k] = bx[k];
+        y[i + k] = by[k];
+        z[i + k] = bz[k];
+      }
+    }
+    for (; i < n; ++i) kernel<Fast>(t[i], x[i], y[i], z[i], t[i], x[i], y[i], z[i]);
+  }
 
   // (a.hi + a.lo)(n.hi + n.lo) rounded: the product's O(u^2) terms are kept.
   static T times(numeric::dd<T> a, numeric::dd<T> n) {
@@ -257,7 +304,7 @@ class lorentz_boost {
 
   // a = n . x as a double-word number: exact products against n.hi, sums by two_sum, the
   // n.lo terms and the product errors added once (error O(u^2) sum |n_i x_i|).
-  numeric::dd<T> along(T x, T y, T z) const {
+  EIGENZEIT_FORCE_INLINE numeric::dd<T> along(T x, T y, T z) const {
     const numeric::dd<T> px = numeric::two_prod(n_[0].hi, x);
     const numeric::dd<T> py = numeric::two_prod(n_[1].hi, y);
     const numeric::dd<T> pz = numeric::two_prod(n_[2].hi, z);
@@ -268,7 +315,7 @@ class lorentz_boost {
   }
 
   // t_lo: the low word of the time part (0 for a plain four-vector).
-  void kernel_slow(T t, T t_lo, T x, T y, T z, T& to, T& xo, T& yo, T& zo) const {
+  EIGENZEIT_FORCE_INLINE void kernel_slow(T t, T t_lo, T x, T y, T z, T& to, T& xo, T& yo, T& zo) const {
     const T nx = n_[0].hi, ny = n_[1].hi, nz = n_[2].hi;
     const T a = nx * x + ny * y + nz * z;
     const T k = gm1_ * a - bg_ * t;
@@ -278,16 +325,32 @@ class lorentz_boost {
     zo = z + k * nz;
   }
 
-  void kernel_fast(T t, T t_lo, T x, T y, T z, T& to, T& xo, T& yo, T& zo) const {
+  // Along an exact axis (n = sign e_k): a = sign x_k is exact, p = t + a and m = t - a take one
+  // rounding each (cancellation in them is exact, Sterbenz), and x_k' = sign a'.
+  EIGENZEIT_FORCE_INLINE void kernel_axis(T t, T t_lo, T xk, T& to, T& xko) const {
+    const T sign = n_[axis_].hi;
+    const T a = sign * xk;
+    const T p = (t + a) + t_lo;
+    const T m = (t - a) + t_lo;
+    const T dp = dh_ * p, em = eh_ * m;
+    to = dp + em;
+    xko = sign * (dp - em);
+  }
+
+  void axis_blocks(T* t, T* xk, std::size_t n) const {
+    for (std::size_t i = 0; i < n; ++i) kernel_axis(t[i], T(0), xk[i], t[i], xk[i]);
+  }
+
+  EIGENZEIT_FORCE_INLINE void kernel_fast(T t, T t_lo, T x, T y, T z, T& to, T& xo, T& yo, T& zo) const {
     const numeric::dd<T> a = along(x, y, z);
     // p = t + a, m = t - a: two_sum of t and a.hi is exact, a.lo added once.
     const numeric::dd<T> ps = numeric::two_sum(t, a.hi);
     const numeric::dd<T> ms = numeric::two_sum(t, -a.hi);
     const T p = ps.hi + (ps.lo + (a.lo + t_lo));
     const T m = ms.hi + (ms.lo - (a.lo - t_lo));
-    const T dp = d_ * p, em = e_ * m;
-    const T ta = (dp + em) * T(0.5);
-    const T aa = (dp - em) * T(0.5);
+    const T dp = dh_ * p, em = eh_ * m;
+    const T ta = dp + em;
+    const T aa = dp - em;
     // x' = (x - a n) + a' n, the perpendicular part from one fma against a.hi n.hi.
     const T nx = n_[0].hi, ny = n_[1].hi, nz = n_[2].hi;
     const T px = -numeric::fms(a.hi, nx, x) - (a.lo * nx + a.hi * n_[0].lo);
@@ -317,9 +380,9 @@ class lorentz_boost {
     const T nan = numeric::domain_error<T>(function, message, value, pol);
     for (auto& c : n_) c = {nan, nan};
     m_ = u_ = {nan, nan};
-    gm1_ = bg_ = d_ = e_ = nan;
+    gm1_ = bg_ = dh_ = eh_ = nan;
     s_ = eigenzeit::speed<T>::from_beta(nan, nan_policy());
-    fast_ = false;
+    kind_ = kind::slow;
   }
 
   // Derived constants from the speed; refuses Lorentz factors whose gamma (1 + beta) overflows.
@@ -327,7 +390,7 @@ class lorentz_boost {
   void prepare_checked(const Policy& pol) {
     using std::isfinite;
     prepare();
-    if (!isfinite(e_))
+    if (!isfinite(eh_))
       set_invalid("eigenzeit::lorentz_boost<%1%>", "gamma = %1%, but gamma (1 + beta) must be finite",
                   s_.gamma(), pol);
   }
@@ -339,10 +402,26 @@ class lorentz_boost {
     gm1_ = s_.gamma_m1();
     bg_ = s_.proper_speed();
     const numeric::dd<T> e = numeric::dd_add(g, u_);  // gamma (1 + beta) = e^rapidity
-    e_ = e.hi + e.lo;
     const numeric::dd<T> d = numeric::dd_div(numeric::dd<T>{T(1), T(0)}, e);
-    d_ = d.hi + d.lo;
-    fast_ = s_.beta() > T(0.25);
+    eh_ = (e.hi + e.lo) / 2;  // halving is exact (e >= 1, d >= 1 / max)
+    dh_ = (d.hi + d.lo) / 2;
+    classify();
+  }
+
+  // Chooses the kernel: an exact coordinate axis takes the light-cone form on one component
+  // at every speed; otherwise beta > 1/4 takes the fast kernel (see the top of the file).
+  void classify() {
+    for (int k = 0; k < 3; ++k) {
+      const bool unit = (n_[k].hi == T(1) || n_[k].hi == T(-1)) && n_[k].lo == 0;
+      const bool others_zero = n_[(k + 1) % 3].hi == 0 && n_[(k + 2) % 3].hi == 0 &&
+                               n_[(k + 1) % 3].lo == 0 && n_[(k + 2) % 3].lo == 0;
+      if (unit && others_zero) {
+        kind_ = kind::axis;
+        axis_ = k;
+        return;
+      }
+    }
+    kind_ = s_.beta() > T(0.25) ? kind::fast : kind::slow;
   }
 };
 

@@ -263,6 +263,8 @@ class lorentz_boost {
   // straight-line body has no aliasing between the four arrays, so the compiler's
   // superword-level vectoriser packs the lanes into SIMD registers even at -O2 (where GCC 12
   // does not version a plain loop for possible aliasing).  The tail runs element by element.
+  // 32 lanes: measured fastest with g++ 12 and clang++ 14 at -O2 -mfma (8 and 16 leave the
+  // copies as library calls or the body partly scalar).
   template <bool Fast>
   EIGENZEIT_FORCE_INLINE void kernel(T t, T x, T y, T z, T& to, T& xo, T& yo, T& zo) const {
     if constexpr (Fast) {
@@ -274,9 +276,9 @@ class lorentz_boost {
 
   template <bool Fast>
   void blocks(T* t, T* x, T* y, T* z, std::size_t n) const {
-    constexpr std::size_t lanes = 8;
-    std::size_t i = 0;
-    for (; i + lanes <= n; i += lanes) {
+    constexpr std::size_t lanes = 32;
+    const std::size_t full = n - n % lanes;
+    for (std::size_t i = 0; i < full; i += lanes) {
       T bt[lanes], bx[lanes], by[lanes], bz[lanes];
       for (std::size_t k = 0; k < lanes; ++k) {
         bt[k] = t[i + k];
@@ -293,7 +295,7 @@ class lorentz_boost {
         z[i + k] = bz[k];
       }
     }
-    for (; i < n; ++i) kernel<Fast>(t[i], x[i], y[i], z[i], t[i], x[i], y[i], z[i]);
+    for (std::size_t i = full; i < n; ++i) kernel<Fast>(t[i], x[i], y[i], z[i], t[i], x[i], y[i], z[i]);
   }
 
   // (a.hi + a.lo)(n.hi + n.lo) rounded: the product's O(u^2) terms are kept.

@@ -19,6 +19,11 @@ Usage: bench_ratios.py [--time cpu|real] [--batch N] FILE.json [FILE.json ...]
   otherwise the median of the individual repetitions.
 * Benchmarks without a twin get a row with the other time and the ratio left blank.
 * The last line gives, per flavour, the largest ratio and the geometric mean of the ratios.
+* "careful/frames/X" and "naive/frames/X" (bench/bench_frames.cpp) stay out of the table and
+  the summary: their batches differ in size and kind (four-vectors, pairs, compositions,
+  events), so a "frames" section after the summary gives one line per pair with the time per
+  item (time per iteration / the benchmark's items_per_iteration counter), the ratio
+  careful / naive, and, for the pairs with a performance target, whether it is met.
 
 Python 3 standard library only.
 """
@@ -32,6 +37,11 @@ import sys
 
 _UNIT_TO_NS = {"ns": 1.0, "us": 1e3, "ms": 1e6, "s": 1e9}
 _PREFIXES = ("careful/", "naive/", "rounded/", "worst/", "rung/")
+_FRAMES = "frames/"
+# Targets for careful / naive (name prefix after "frames/", largest ratio); other pairs are
+# for information.
+_FRAMES_TARGETS = (("apply/", 1.3), ("apply_in_place/", 1.3), ("apply_in_place_blocked/", 1.3),
+                   ("invariant_mass/pair", 2.0))
 
 
 def flavour_of(executable):
@@ -78,6 +88,74 @@ def load(path, time_key, batch):
     return flavour, per_element
 
 
+def load_frames(path, time_key):
+    """Returns (flavour, {"careful"|"naive": {name after frames/: ns per item}})."""
+    with open(path, encoding="utf-8") as handle:
+        data = json.load(handle)
+    flavour = flavour_of(data.get("context", {}).get("executable", ""))
+    medians, iterations = {}, {}
+    for entry in data.get("benchmarks", []):
+        run_name = entry.get("run_name", entry.get("name")) or ""
+        kind, name = split_name(run_name)
+        if kind not in ("careful", "naive") or not name.startswith(_FRAMES):
+            continue
+        if entry.get("error_occurred"):
+            continue  # load() has warned
+        run_type = entry.get("run_type", "iteration")
+        if run_type == "aggregate" and entry.get("aggregate_name") != "median":
+            continue
+        scale = _UNIT_TO_NS.get(entry.get("time_unit", "ns"))
+        items = entry.get("items_per_iteration")
+        if scale is None or time_key not in entry or not items:
+            print(f"warning: {path}: {entry.get('name')}: no usable {time_key} or "
+                  f"items_per_iteration", file=sys.stderr)
+            continue
+        ns = float(entry[time_key]) * scale / float(items)
+        key = (kind, name[len(_FRAMES):])
+        if run_type == "aggregate":
+            medians[key] = ns
+        elif run_type == "iteration":
+            iterations.setdefault(key, []).append(ns)
+    times = {"careful": {}, "naive": {}}
+    for key in set(medians) | set(iterations):
+        ns = medians.get(key)
+        if ns is None:
+            ns = statistics.median(iterations[key])
+        times[key[0]][key[1]] = ns
+    return flavour, times
+
+
+def frames_lines(frames, time_kind, flavour_order):
+    """The lines of the frames section from [(flavour, file name, times)]."""
+    lines = []
+    entries = []
+    for flavour, file_name, times in frames:
+        careful, naive = times["careful"], times["naive"]
+        for name in set(careful) | set(naive):
+            entries.append((flavour_order.get(flavour, 2), flavour, name, file_name,
+                            careful.get(name), naive.get(name)))
+    for _, flavour, name, file_name, careful, naive in sorted(entries):
+        target = next((limit for prefix, limit in _FRAMES_TARGETS if name.startswith(prefix)),
+                      None)
+        if careful is None or naive is None:
+            side = "naive" if careful is None else "careful"
+            lines.append(f"Frames, {flavour}: {name}: only the {side} form ran ({file_name})")
+            continue
+        ratio = careful / naive
+        if target is None:
+            verdict = "information"
+        elif ratio <= target:
+            verdict = f"target <= {target:g}: met"
+        else:
+            verdict = f"target <= {target:g}: missed by {(ratio / target - 1) * 100:.0f}%"
+        lines.append(f"Frames, {flavour}: {name}: careful {careful:.3f} ns, naive {naive:.3f} ns "
+                     f"per item, careful/naive {ratio:.2f} ({verdict})")
+    if lines:
+        lines.insert(0, f"Frames: time per item = {time_kind}_time per iteration / "
+                        f"items_per_iteration (median of repetitions when present).")
+    return lines
+
+
 def split_name(full):
     for prefix in _PREFIXES:
         if full.startswith(prefix):
@@ -105,9 +183,12 @@ def main(argv=None):
     worst = []         # (flavour, name, ns)
     rungs = []         # (flavour, name, ns): one careful evaluation on each rung of the ladder
     flavour_order = {"-O2": 0, "-O2 -mfma": 1}
+    frames = []        # (flavour, file name, {"careful"|"naive": {name: ns per item}})
     for path in args.files:
         try:
             flavour, times = load(path, time_key, args.batch)
+            _, frame_times = load_frames(path, time_key)
+            frames.append((flavour, os.path.basename(path), frame_times))
         except (OSError, ValueError) as error:
             print(f"error: {path}: {error}", file=sys.stderr)
             return 1
@@ -120,6 +201,8 @@ def main(argv=None):
             if kind == "rung":
                 rungs.append((flavour, name, ns))
                 continue
+            if name.startswith(_FRAMES):
+                continue  # the frames section
             pairs.setdefault(name, {})[kind] = ns
         for name, both in pairs.items():
             naive, careful, rounded = both.get("naive"), both.get("careful"), both.get("rounded")
@@ -132,6 +215,10 @@ def main(argv=None):
             rows.append((name, flavour_order.get(flavour, 2), os.path.basename(path), flavour,
                          naive, careful, rounded))
 
+    frames_section = frames_lines(frames, args.time, flavour_order)
+    if not rows and frames_section:
+        print("\n".join(frames_section))
+        return 0
     if not rows:
         print("error: no careful/, naive/ or rounded/ benchmarks in the given files", file=sys.stderr)
         return 1
@@ -169,6 +256,9 @@ def main(argv=None):
         parts.append(f"{flavour} {kind}: max {top:.2f} ({top_name}), geometric mean {geo:.2f} "
                      f"over {len(values)} pairs")
     print("Summary: " + ("; ".join(parts) if parts else "no pairs"))
+    if frames_section:
+        print()
+        print("\n".join(frames_section))
     return 0
 
 

@@ -95,7 +95,8 @@ inline T invariant_mass(const momentum<T>& a, const momentum<T>& b) {
     angle_part = papb - d;
   }
   const T m2 = (ma2 + mb2) + 2 * (energy_part + angle_part);
-  return T(ldexp(sqrt(m2), e));
+  const T m = sqrt(m2);
+  return e == 0 ? m : T(ldexp(m, e));  // ldexp is a library call: only where scaled
 }
 
 /// The invariant mass of a range of momenta (any range whose elements are momentum<T>), with

@@ -180,14 +180,14 @@ class lorentz_boost {
   // ---- application -------------------------------------------------------------------------
 
   /// The coordinates of v in the moving frame (see the top of the file for the forms).
-  four_vector<T> apply(const four_vector<T>& v) const {
+  EIGENZEIT_FORCE_INLINE four_vector<T> apply(const four_vector<T>& v) const {
     return apply(numeric::dd<T>{v.t, T(0)}, v.spatial());
   }
 
   /// The same for a four-vector whose time part is given as a double-word number t.hi + t.lo
   /// (an energy computed to twice the precision: momentum::boosted() uses it, so that an
   /// on-shell momentum is boosted as if its energy were exact).
-  four_vector<T> apply(numeric::dd<T> t, const vec3<T>& r) const {
+  EIGENZEIT_FORCE_INLINE four_vector<T> apply(numeric::dd<T> t, const vec3<T>& r) const {
     four_vector<T> o{T(0), r.x, r.y, r.z};
     switch (kind_) {
       case kind::axis: {

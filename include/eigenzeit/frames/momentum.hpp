@@ -85,7 +85,7 @@ class momentum {
     using std::ldexp;
     int e = 0;
     const numeric::dd<T> w = energy_words(e);
-    return T(ldexp(w.hi + w.lo, e));
+    return e == 0 ? T(w.hi + w.lo) : T(ldexp(w.hi + w.lo, e));
   }
 
   /// E - m = |p|^2 / (E + m), within 1 ulp, no cancellation for slow particles.
@@ -94,11 +94,12 @@ class momentum {
     int e = 0;
     const numeric::dd<T> w = energy_words(e);
     if (w.hi == 0) return w.hi;
-    const T ms = T(ldexp(m_, -e));
-    const vec3<T> ps{T(ldexp(p_.x, -e)), T(ldexp(p_.y, -e)), T(ldexp(p_.z, -e))};
+    T ms;
+    vec3<T> ps;
+    scaled_parts(e, ms, ps);
     const numeric::dd<T> p2 = detail::sum_of_squares_words(ps);
     const numeric::dd<T> k = numeric::dd_div(p2, numeric::dd_add(w, numeric::dd<T>{ms, T(0)}));
-    return T(ldexp(k.hi + k.lo, e));
+    return e == 0 ? T(k.hi + k.lo) : T(ldexp(k.hi + k.lo, e));
   }
 
   /// The speed (see the top).  A massless particle moves at c, which speed<T> does not hold:
@@ -136,7 +137,7 @@ class momentum {
     using std::ldexp;
     int e = 0;
     numeric::dd<T> w = energy_words(e);
-    w = numeric::dd_ldexp(w, e);
+    if (e != 0) w = numeric::dd_ldexp(w, e);
     const four_vector<T> v = b.apply(w, p_);
     momentum r;
     r.m_ = m_;
@@ -164,11 +165,24 @@ class momentum {
       e = 0;
       return {big, T(0)};  // 0, or NaN for an invalid momentum
     }
-    e = static_cast<int>(ilogb(big));
-    const T ms = T(ldexp(m_, -e));
-    const vec3<T> ps{T(ldexp(p_.x, -e)), T(ldexp(p_.y, -e)), T(ldexp(p_.z, -e))};
+    e = detail::in_square_range(big) ? 0 : static_cast<int>(ilogb(big));
+    T ms;
+    vec3<T> ps;
+    scaled_parts(e, ms, ps);
     const numeric::dd<T> s = numeric::dd_add(detail::sum_of_squares_words(ps), numeric::two_prod(ms, ms));
     return numeric::dd_sqrt(s);
+  }
+
+  // m and p scaled by 2^-e (no library call when e = 0, the common case).
+  void scaled_parts(int e, T& ms, vec3<T>& ps) const {
+    using std::ldexp;
+    if (e == 0) {
+      ms = m_;
+      ps = p_;
+    } else {
+      ms = T(ldexp(m_, -e));
+      ps = {T(ldexp(p_.x, -e)), T(ldexp(p_.y, -e)), T(ldexp(p_.z, -e))};
+    }
   }
 };
 

@@ -20,7 +20,9 @@
 //   floating-point expansion (Shewchuk's grow-expansion, J. R. Shewchuk, "Adaptive
 //   precision floating-point arithmetic and fast robust geometric predicates", Discrete
 //   Comput. Geom. 18 (1997)) and rounded once, then one square root: within 1 ulp of the
-//   norm of the exact input, however strong the cancellation.
+//   norm of the exact input, however strong the cancellation.  A double-word sum with an error
+//   bound answers first where the cancellation is mild (most inputs); the expansion runs only
+//   where that bound leaves more than a quarter ulp open.
 //   Spacelike inputs: |r| <= (1 + 4 eps)|t| (a null vector off by rounding, such as a photon's
 //   (|p|, p) with |p| rounded) gives 0; beyond that, a domain error through the policy, naming
 //   the value of t^2 - r^2.  A past-pointing vector (t < 0) gives the same norm.
@@ -125,6 +127,18 @@ inline T max_abs(const vec3<T>& v) {
   return max(abs(v.x), max(abs(v.y), abs(v.z)));
 }
 
+/// Whether squares and products of two numbers up to `big` (the largest magnitude of the
+/// inputs) neither overflow nor lose their exact low parts to underflow, so that the
+/// double-word sums of squares need no scaling: 2^(min_exponent/2 + digits) <= big <=
+/// 2^(max_exponent/2 - 2).  Smaller inputs' squares may still underflow, but they are below
+/// 2^-2digits of big^2 and change nothing.
+template <class T>
+inline bool in_square_range(const T& big) {
+  constexpr int lo = std::numeric_limits<T>::min_exponent / 2 + numeric::digits_v<T>;
+  return big >= numeric::pow2_const<T, lo>() &&
+         big <= numeric::pow2_const<T, std::numeric_limits<T>::max_exponent / 2 - 2>();
+}
+
 /// v scaled by 2^-e with e the exponent of its largest component, so that the largest lies in
 /// [1, 2) (exact, except that components below 2^-(digits - min_exponent) of the largest lose
 /// bits they contribute nothing to, relatively, below u^2).  v must be finite and nonzero.
@@ -221,6 +235,10 @@ inline T norm(const vec3<T>& v) {
   using std::ldexp;
   const T m = detail::max_abs(v);
   if (m == 0 || !isfinite(m)) return m + (v.x + v.y + v.z) * T(0);  // 0, inf, or NaN
+  if (detail::in_square_range(m)) {
+    const numeric::dd<T> n = numeric::dd_sqrt(detail::sum_of_squares_words(v));
+    return n.hi + n.lo;
+  }
   int e = 0;
   const numeric::dd<T> n = detail::norm_words(v, e);
   return T(ldexp(n.hi + n.lo, e));
@@ -288,12 +306,30 @@ inline T invariant_mass(const four_vector<T>& v, const Policy& pol = Policy()) {
   }
   const T big = max(abs(v.t), detail::max_abs(v.spatial()));
   if (big == 0) return T(0);
-  const int e = static_cast<int>(ilogb(big));
-  const T t = T(ldexp(v.t, -e)), x = T(ldexp(v.x, -e)), y = T(ldexp(v.y, -e)), z = T(ldexp(v.z, -e));
+  // Scaled by 2^-e only outside the range where the squares are safe (ldexp is a library call).
+  const int e = detail::in_square_range(big) ? 0 : static_cast<int>(ilogb(big));
+  T t = v.t, x = v.x, y = v.y, z = v.z;
+  if (e != 0) {
+    t = T(ldexp(t, -e));
+    x = T(ldexp(x, -e));
+    y = T(ldexp(y, -e));
+    z = T(ldexp(z, -e));
+  }
   const numeric::dd<T> tt = numeric::two_prod(t, t), xx = numeric::two_prod(x, x),
                        yy = numeric::two_prod(y, y), zz = numeric::two_prod(z, z);
-  const T terms[8] = {tt.lo, -xx.lo, -yy.lo, -zz.lo, tt.hi, -xx.hi, -yy.hi, -zz.hi};
-  const T d = detail::exact_sum(terms);  // (t^2 - r^2) 2^-2e, rounded once
+  // Fast path: the high parts summed by two_sum, the errors and low parts added once.  The
+  // error of d is below 8 u^2 (t^2 + r^2) (each low term is below u of a partial sum bounded
+  // by that); where that is within u/4 of |d|, d is within 3/4 ulp and the root within 1 ulp.
+  // Otherwise (cancellation beyond 1 / (32 u)) the exact expansion decides.
+  const numeric::dd<T> s1 = numeric::two_sum(tt.hi, -xx.hi);
+  const numeric::dd<T> s2 = numeric::two_sum(s1.hi, -yy.hi);
+  const numeric::dd<T> s3 = numeric::two_sum(s2.hi, -zz.hi);
+  T d = s3.hi + ((s1.lo + s2.lo + s3.lo) + (tt.lo - xx.lo - yy.lo - zz.lo));
+  const T u = std::numeric_limits<T>::epsilon() / 2;
+  if (!(32 * u * (tt.hi + xx.hi + yy.hi + zz.hi) <= abs(d))) {
+    const T terms[8] = {tt.lo, -xx.lo, -yy.lo, -zz.lo, tt.hi, -xx.hi, -yy.hi, -zz.hi};
+    d = detail::exact_sum(terms);  // (t^2 - r^2) 2^-2e, rounded once
+  }
   if (d < 0) {
     // |r| <= (1 + 4 eps)|t|  <=>  r^2 - t^2 <= (8 eps + 16 eps^2) t^2: a null vector off by rounding.
     const T eps = std::numeric_limits<T>::epsilon();
@@ -304,7 +340,8 @@ inline T invariant_mass(const four_vector<T>& v, const Policy& pol = Policy()) {
         "by more than rounding (|r| > (1 + 4 epsilon)|t|) and has no mass",
         d, pol);
   }
-  return T(ldexp(sqrt(d), e));
+  const T m = sqrt(d);
+  return e == 0 ? m : T(ldexp(m, e));
 }
 
 }  // namespace eigenzeit

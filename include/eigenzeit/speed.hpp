@@ -619,7 +619,10 @@ class speed {
   template <class Policy = throw_policy>
   static speed from_beta_words(numeric::dd<T> beta, const Policy& pol = Policy()) {
     const T sum = beta.hi + beta.lo;
-    if (!(beta.hi >= T(0) && sum >= T(0) && sum < T(1)))
+    // Below 1 decided on the words: hi = 1 with a negative lo is below 1 although hi + lo
+    // rounds to 1.
+    const bool below_one = beta.hi < T(1) || (beta.hi == T(1) && beta.lo < T(0));
+    if (!(beta.hi >= T(0) && sum >= T(0) && below_one))
       return invalid("eigenzeit::speed<%1%>::from_beta_words(%1%)",
                      "beta = %1% (high + low word), but it must lie in [0, 1)", sum, pol);
     if (beta.hi == 0) return speed();

@@ -40,6 +40,7 @@
 #include <cstddef>
 #include <iterator>
 #include <limits>
+#include <type_traits>
 
 #include <eigenzeit/frames/vectors.hpp>
 #include <eigenzeit/numeric/eft.hpp>
@@ -50,31 +51,82 @@ namespace eigenzeit {
 
 namespace detail {
 
-/// gamma - 1 of a speed as a double-word number: g.hi - 1 is exact up to g.hi = 2^digits
-/// (two_sum beyond), and for slow speeds the low word holds gamma - 1 itself, to the full
-/// relative accuracy the speed core gives it.
+/// gamma - 1 and beta gamma of a speed as double-word numbers with relative errors O(u^2) at
+/// every speed.  Below gamma = 2 they come from the beta words alone: q = 1 - beta^2 (no
+/// cancellation there), s = sqrt(q), gamma - 1 = beta^2 / (s (1 + s)) and beta gamma = beta / s
+/// (the speed core keeps gamma - 1 of slow speeds to one word, which would put an error of
+/// u (gamma - 1) into them).  From gamma = 2 on, from the gamma words: g.hi - 1 + g.lo (exact
+/// two_sum, no cancellation) and beta gamma as the product of the words.
+template <class T>
+inline numeric::dd<T> slow_root_words(const speed<T>& s, numeric::dd<T>& beta_squared) {
+  const numeric::dd<T> one{T(1), T(0)};
+  const numeric::dd<T> b = s.beta_words();
+  beta_squared = numeric::dd_mul(b, b);
+  return numeric::dd_sqrt(numeric::dd_add(one, numeric::dd<T>{-beta_squared.hi, -beta_squared.lo}));
+}
+
 template <class T>
 inline numeric::dd<T> gamma_m1_words(const speed<T>& s) {
   const numeric::dd<T> g = s.gamma_words();
+  if (g.hi < T(2)) {
+    numeric::dd<T> b2;
+    const numeric::dd<T> root = slow_root_words(s, b2);
+    return numeric::dd_div(b2, numeric::dd_mul(root, numeric::dd_add(numeric::dd<T>{T(1), T(0)}, root)));
+  }
   const numeric::dd<T> h = numeric::two_sum(g.hi, T(-1));
   return numeric::fast_two_sum(h.hi, h.lo + g.lo);
 }
 
-/// beta gamma of a speed as a double-word number (relative error O(u^2)).
 template <class T>
 inline numeric::dd<T> proper_speed_words(const speed<T>& s) {
+  if (s.gamma_words().hi < T(2)) {
+    numeric::dd<T> b2;
+    const numeric::dd<T> root = slow_root_words(s, b2);
+    return numeric::dd_div(s.beta_words(), root);
+  }
   return numeric::dd_mul(s.beta_words(), s.gamma_words());
+}
+
+/// The type the boost kernels compute in: double for float (a float double-word number
+/// carries 48 bits, and the fast kernel's u^2 gamma^2 error would reach float's ulp near
+/// gamma = 4e3), T itself otherwise.
+template <class T>
+struct boost_work {
+  using type = T;
+};
+template <>
+struct boost_work<float> {
+  using type = double;
+};
+
+/// A double-word number of T converted to W (normalised again).
+template <class W, class T>
+inline numeric::dd<W> words_as(const numeric::dd<T>& a) {
+  if constexpr (std::is_same<W, T>::value) {
+    return a;
+  } else {
+    return numeric::fast_two_sum(W(a.hi), W(a.lo));
+  }
+}
+
+/// Whether hi + lo (a normalised double-word number >= 0) is below 1, decided exactly: a
+/// rounded sum would call 1 - 2^-60 equal to 1.
+template <class T>
+inline bool words_below_one(const numeric::dd<T>& a) {
+  return a.hi < T(1) || (a.hi == T(1) && a.lo < T(0));
 }
 
 }  // namespace detail
 
 template <class T>
 class lorentz_boost {
+  using W = typename detail::boost_work<T>::type;
+
  public:
   using value_type = T;
 
   /// The identity (beta = 0, direction +z).
-  lorentz_boost() : n_{{T(0), T(0)}, {T(0), T(0)}, {T(1), T(0)}}, s_() { prepare(); }
+  lorentz_boost() : n_{{W(0), W(0)}, {W(0), W(0)}, {W(1), W(0)}}, s_() { prepare(); }
 
   /// A boost with speed s along direction (any nonzero finite length; it is normalised to
   /// double-word accuracy).  A zero, infinite or NaN direction, or a NaN speed (from a NaN
@@ -96,20 +148,17 @@ class lorentz_boost {
                   "beta = %1%, but the speed must be a number in [0, 1)", s.beta(), pol);
       return;
     }
-    const detail::unit_words<T> n = detail::unit_words_of(direction);
-    n_[0] = n.x;
-    n_[1] = n.y;
-    n_[2] = n.z;
+    set_direction(direction);
     prepare_checked(pol);
   }
 
   /// The boost with velocity beta (the vector v / c): direction beta / |beta|, speed |beta|,
   /// with |beta| formed as a double-word number so that 1 - |beta| keeps its digits near c.
-  /// |beta| >= 1 (the speed of light or beyond), an infinite or NaN component are domain
-  /// errors through the policy.  beta = 0 gives the identity.
+  /// |beta| >= 1 (the speed of light or beyond; decided exactly, so 1 - |beta| = 1e-17 is
+  /// accepted), an infinite or NaN component are domain errors through the policy.  beta = 0
+  /// gives the identity.
   template <class Policy = throw_policy>
   static lorentz_boost from_velocity(const vec3<T>& beta, const Policy& pol = Policy()) {
-    using std::ldexp;
     lorentz_boost b;
     if (!detail::all_finite(beta)) {
       b.set_invalid("eigenzeit::lorentz_boost<%1%>::from_velocity(beta)",
@@ -122,18 +171,15 @@ class lorentz_boost {
     const vec3<T> s = detail::scaled(beta, e);
     const numeric::dd<T> norm = numeric::dd_sqrt(detail::sum_of_squares_words(s));
     numeric::dd<T> speed_words = numeric::dd_ldexp(norm, e);
-    if (!(speed_words.hi + speed_words.lo < T(1))) {
+    speed_words = numeric::fast_two_sum(speed_words.hi, speed_words.lo);
+    if (!detail::words_below_one(speed_words)) {
       b.set_invalid("eigenzeit::lorentz_boost<%1%>::from_velocity(beta)",
                     "|beta| = %1%, but a boost needs a speed below that of light (|beta| < 1)",
                     T(speed_words.hi + speed_words.lo), pol);
       return b;
     }
-    speed_words = numeric::fast_two_sum(speed_words.hi, speed_words.lo);
     b.s_ = eigenzeit::speed<T>::from_beta_words(speed_words, pol);
-    const numeric::dd<T> n[3] = {numeric::dd_div(numeric::dd<T>{s.x, T(0)}, norm),
-                                 numeric::dd_div(numeric::dd<T>{s.y, T(0)}, norm),
-                                 numeric::dd_div(numeric::dd<T>{s.z, T(0)}, norm)};
-    for (int i = 0; i < 3; ++i) b.n_[i] = n[i];
+    b.set_direction(beta);
     b.prepare_checked(pol);
     return b;
   }
@@ -145,9 +191,9 @@ class lorentz_boost {
   static lorentz_boost from_unit_words(numeric::dd<T> nx, numeric::dd<T> ny, numeric::dd<T> nz,
                                        const eigenzeit::speed<T>& s) {
     lorentz_boost b;
-    b.n_[0] = nx;
-    b.n_[1] = ny;
-    b.n_[2] = nz;
+    b.n_[0] = detail::words_as<W>(nx);
+    b.n_[1] = detail::words_as<W>(ny);
+    b.n_[2] = detail::words_as<W>(nz);
     b.s_ = s;
     b.prepare();
     return b;
@@ -158,13 +204,13 @@ class lorentz_boost {
   /// The speed of the moving frame.
   const eigenzeit::speed<T>& speed() const { return s_; }
 
-  /// The unit direction of motion (high words of the double-word unit vector).
-  vec3<T> direction() const { return {n_[0].hi, n_[1].hi, n_[2].hi}; }
+  /// The unit direction of motion (the double-word unit vector rounded to T).
+  vec3<T> direction() const { return {T(n_[0].hi), T(n_[1].hi), T(n_[2].hi)}; }
 
   /// The velocity beta n of the moving frame (components rounded once).
   vec3<T> velocity() const {
-    const T b = s_.beta();
-    return {b * n_[0].hi, b * n_[1].hi, b * n_[2].hi};
+    const W b = W(s_.beta());
+    return {T(b * n_[0].hi), T(b * n_[1].hi), T(b * n_[2].hi)};
   }
 
   /// The inverse boost (same speed, opposite direction): exact.
@@ -174,8 +220,11 @@ class lorentz_boost {
     return r;
   }
 
-  /// The double-word unit vector, for code that carries the extra precision further.
-  numeric::dd<T> direction_words(int i) const { return n_[i]; }
+  /// The double-word unit vector in T, for code that carries the extra precision further.
+  numeric::dd<T> direction_words(int i) const {
+    const T hi = T(n_[i].hi);
+    return {hi, T((n_[i].hi - W(hi)) + n_[i].lo)};
+  }
 
   // ---- application -------------------------------------------------------------------------
 
@@ -190,40 +239,47 @@ class lorentz_boost {
   EIGENZEIT_FORCE_INLINE four_vector<T> apply(numeric::dd<T> t, const vec3<T>& r) const {
     four_vector<T> o{T(0), r.x, r.y, r.z};
     switch (kind_) {
-      case kind::axis: {
+      case kind::axis_fast:
+      case kind::axis_slow: {
         T* comp[3] = {&o.x, &o.y, &o.z};
-        kernel_axis(t.hi, t.lo, *comp[axis_], o.t, *comp[axis_]);
+        if (kind_ == kind::axis_fast) {
+          kernel_axis<true>(W(t.hi), W(t.lo), W(*comp[axis_]), o.t, *comp[axis_]);
+        } else {
+          kernel_axis<false>(W(t.hi), W(t.lo), W(*comp[axis_]), o.t, *comp[axis_]);
+        }
         break;
       }
-      case kind::fast: kernel_fast(t.hi, t.lo, r.x, r.y, r.z, o.t, o.x, o.y, o.z); break;
-      default: kernel_slow(t.hi, t.lo, r.x, r.y, r.z, o.t, o.x, o.y, o.z); break;
+      case kind::fast: kernel_fast(W(t.hi), W(t.lo), W(r.x), W(r.y), W(r.z), o.t, o.x, o.y, o.z); break;
+      default: kernel_slow(W(t.hi), W(t.lo), W(r.x), W(r.y), W(r.z), o.t, o.x, o.y, o.z); break;
     }
     return o;
   }
 
   /// The change of each coordinate, (t' - t, x' - x, y' - y, z' - z), accurate relative to
   /// each change (a few ulp) at every speed, including beta = 1e-12 where the change is far
-  /// below an ulp of the coordinate.
+  /// below an ulp of the coordinate: gamma - 1, beta gamma and a = n . x are double-word
+  /// numbers with relative errors O(u^2), so a change survives a cancellation between its two
+  /// terms of up to ~1/u.
   four_vector<T> displacement(const four_vector<T>& v) const {
     using numeric::dd;
-    const dd<T> a = along(v.x, v.y, v.z);
-    const dd<T> t{v.t, T(0)};
+    const dd<W> a = along(W(v.x), W(v.y), W(v.z));
+    const dd<W> t{W(v.t), W(0)};
     // da = (gamma - 1) a - beta gamma t;  dt = (gamma - 1) t - beta gamma a.
-    const dd<T> da = numeric::dd_add(numeric::dd_mul(m_, a), neg(numeric::dd_mul(u_, t)));
-    const dd<T> dt = numeric::dd_add(numeric::dd_mul(m_, t), neg(numeric::dd_mul(u_, a)));
-    return {dt.hi + dt.lo, times(da, n_[0]), times(da, n_[1]), times(da, n_[2])};
+    const dd<W> da = numeric::dd_add(numeric::dd_mul(m_, a), neg(numeric::dd_mul(u_, t)));
+    const dd<W> dt = numeric::dd_add(numeric::dd_mul(m_, t), neg(numeric::dd_mul(u_, a)));
+    return {T(dt.hi + dt.lo), T(times(da, n_[0])), T(times(da, n_[1])), T(times(da, n_[2]))};
   }
 
   /// Applies the boost in place to n four-vectors held as separate arrays (structure of
   /// arrays): the same forms and accuracy as apply(), one branch per call (not per element),
-  /// so that the loop vectorises.  The arrays may not overlap one another.
+  /// so that the loop vectorises.  The arrays may not overlap one another.  (Where the
+  /// compiler contracts a * b + c into fused multiply-adds, it may do so differently here and
+  /// in apply(), so the two can differ in the last bit; both keep the accuracy contract.)
   void apply_in_place(T* t, T* x, T* y, T* z, std::size_t n) const {
+    T* comp[3] = {x, y, z};
     switch (kind_) {
-      case kind::axis: {
-        T* comp[3] = {x, y, z};
-        axis_blocks(t, comp[axis_], n);
-        break;
-      }
+      case kind::axis_fast: axis_loop<true>(t, comp[axis_], n); break;
+      case kind::axis_slow: axis_loop<false>(t, comp[axis_], n); break;
       case kind::fast: blocks<true>(t, x, y, z, n); break;
       default: blocks<false>(t, x, y, z, n); break;
     }
@@ -247,17 +303,35 @@ class lorentz_boost {
   }
 
  private:
-  numeric::dd<T> n_[3];   // unit direction, double-word components
+  numeric::dd<W> n_[3];            // unit direction, double-word components
   eigenzeit::speed<T> s_;
-  numeric::dd<T> m_{T(0), T(0)};  // gamma - 1
-  numeric::dd<T> u_{T(0), T(0)};  // beta gamma
-  T gm1_ = T(0), bg_ = T(0);      // the same, rounded (slow kernel)
-  T dh_ = T(0.5), eh_ = T(0.5);   // gamma (1 - beta) / 2 and gamma (1 + beta) / 2 (light-cone form)
-  enum class kind : unsigned char { slow, fast, axis };
-  kind kind_ = kind::axis;  // axis: the direction is +-x, +-y or +-z exactly
-  int axis_ = 2;            // which one (kind::axis)
+  numeric::dd<W> m_{W(0), W(0)};   // gamma - 1
+  numeric::dd<W> u_{W(0), W(0)};   // beta gamma
+  W gm1_ = W(0), bg_ = W(0);       // the same, rounded (slow kernels)
+  W dh_ = W(0.5), eh_ = W(0.5);    // gamma (1 - beta) / 2 and gamma (1 + beta) / 2 (light cone)
+  // slow / fast: general direction, beta <= 1/4 or above; axis_*: the direction is +-x, +-y
+  // or +-z exactly (the along-axis component alone changes).
+  enum class kind : unsigned char { slow, fast, axis_slow, axis_fast };
+  kind kind_ = kind::axis_slow;
+  int axis_ = 2;  // which axis (axis_* kinds)
 
-  static numeric::dd<T> neg(numeric::dd<T> a) { return {-a.hi, -a.lo}; }
+  static numeric::dd<W> neg(numeric::dd<W> a) { return {-a.hi, -a.lo}; }
+
+  void set_direction(const vec3<T>& d) {
+    const detail::unit_words<W> n = detail::unit_words_of(vec3<W>{W(d.x), W(d.y), W(d.z)});
+    n_[0] = n.x;
+    n_[1] = n.y;
+    n_[2] = n.z;
+  }
+
+  template <bool Fast>
+  EIGENZEIT_FORCE_INLINE void kernel(T t, T x, T y, T z, T& to, T& xo, T& yo, T& zo) const {
+    if constexpr (Fast) {
+      kernel_fast(W(t), W(0), W(x), W(y), W(z), to, xo, yo, zo);
+    } else {
+      kernel_slow(W(t), W(0), W(x), W(y), W(z), to, xo, yo, zo);
+    }
+  }
 
   // The batch loop in blocks of `lanes` elements copied to local arrays: the block's
   // straight-line body has no aliasing between the four arrays, so the compiler's
@@ -265,15 +339,6 @@ class lorentz_boost {
   // does not version a plain loop for possible aliasing).  The tail runs element by element.
   // 32 lanes: measured fastest with g++ 12 and clang++ 14 at -O2 -mfma (8 and 16 leave the
   // copies as library calls or the body partly scalar).
-  template <bool Fast>
-  EIGENZEIT_FORCE_INLINE void kernel(T t, T x, T y, T z, T& to, T& xo, T& yo, T& zo) const {
-    if constexpr (Fast) {
-      kernel_fast(t, T(0), x, y, z, to, xo, yo, zo);
-    } else {
-      kernel_slow(t, T(0), x, y, z, to, xo, yo, zo);
-    }
-  }
-
   template <bool Fast>
   void blocks(T* t, T* x, T* y, T* z, std::size_t n) const {
     constexpr std::size_t lanes = 32;
@@ -298,70 +363,79 @@ class lorentz_boost {
     for (std::size_t i = full; i < n; ++i) kernel<Fast>(t[i], x[i], y[i], z[i], t[i], x[i], y[i], z[i]);
   }
 
+  template <bool Fast>
+  void axis_loop(T* t, T* xk, std::size_t n) const {
+    for (std::size_t i = 0; i < n; ++i) kernel_axis<Fast>(W(t[i]), W(0), W(xk[i]), t[i], xk[i]);
+  }
+
   // (a.hi + a.lo)(n.hi + n.lo) rounded: the product's O(u^2) terms are kept.
-  static T times(numeric::dd<T> a, numeric::dd<T> n) {
-    const numeric::dd<T> p = numeric::two_prod(a.hi, n.hi);
+  static W times(numeric::dd<W> a, numeric::dd<W> n) {
+    const numeric::dd<W> p = numeric::two_prod(a.hi, n.hi);
     return p.hi + (p.lo + (a.hi * n.lo + a.lo * n.hi));
   }
 
   // a = n . x as a double-word number: exact products against n.hi, sums by two_sum, the
   // n.lo terms and the product errors added once (error O(u^2) sum |n_i x_i|).
-  EIGENZEIT_FORCE_INLINE numeric::dd<T> along(T x, T y, T z) const {
-    const numeric::dd<T> px = numeric::two_prod(n_[0].hi, x);
-    const numeric::dd<T> py = numeric::two_prod(n_[1].hi, y);
-    const numeric::dd<T> pz = numeric::two_prod(n_[2].hi, z);
-    const numeric::dd<T> s1 = numeric::two_sum(px.hi, py.hi);
-    const numeric::dd<T> s2 = numeric::two_sum(s1.hi, pz.hi);
-    const T lo = (s1.lo + s2.lo) + ((px.lo + py.lo + pz.lo) + (n_[0].lo * x + n_[1].lo * y + n_[2].lo * z));
+  EIGENZEIT_FORCE_INLINE numeric::dd<W> along(W x, W y, W z) const {
+    const numeric::dd<W> px = numeric::two_prod(n_[0].hi, x);
+    const numeric::dd<W> py = numeric::two_prod(n_[1].hi, y);
+    const numeric::dd<W> pz = numeric::two_prod(n_[2].hi, z);
+    const numeric::dd<W> s1 = numeric::two_sum(px.hi, py.hi);
+    const numeric::dd<W> s2 = numeric::two_sum(s1.hi, pz.hi);
+    const W lo = (s1.lo + s2.lo) + ((px.lo + py.lo + pz.lo) + (n_[0].lo * x + n_[1].lo * y + n_[2].lo * z));
     return numeric::fast_two_sum(s2.hi, lo);
   }
 
   // t_lo: the low word of the time part (0 for a plain four-vector).
-  EIGENZEIT_FORCE_INLINE void kernel_slow(T t, T t_lo, T x, T y, T z, T& to, T& xo, T& yo, T& zo) const {
-    const T nx = n_[0].hi, ny = n_[1].hi, nz = n_[2].hi;
-    const T a = nx * x + ny * y + nz * z;
-    const T k = gm1_ * a - bg_ * t;
-    to = t + (t_lo + (gm1_ * t - bg_ * a));
-    xo = x + k * nx;
-    yo = y + k * ny;
-    zo = z + k * nz;
+  EIGENZEIT_FORCE_INLINE void kernel_slow(W t, W t_lo, W x, W y, W z, T& to, T& xo, T& yo, T& zo) const {
+    const W nx = n_[0].hi, ny = n_[1].hi, nz = n_[2].hi;
+    const W a = nx * x + ny * y + nz * z;
+    const W k = gm1_ * a - bg_ * t;
+    to = T(t + (t_lo + (gm1_ * t - bg_ * a)));
+    xo = T(x + k * nx);
+    yo = T(y + k * ny);
+    zo = T(z + k * nz);
   }
 
-  // Along an exact axis (n = sign e_k): a = sign x_k is exact, p = t + a and m = t - a take one
-  // rounding each (cancellation in them is exact, Sterbenz), and x_k' = sign a'.
-  EIGENZEIT_FORCE_INLINE void kernel_axis(T t, T t_lo, T xk, T& to, T& xko) const {
-    const T sign = n_[axis_].hi;
-    const T a = sign * xk;
-    const T p = (t + a) + t_lo;
-    const T m = (t - a) + t_lo;
-    const T dp = dh_ * p, em = eh_ * m;
-    to = dp + em;
-    xko = sign * (dp - em);
+  // Along an exact axis (n = sign e_k, so a = sign x_k exactly).  Fast: the light-cone form,
+  // p = t + a and m = t - a with one rounding each (any cancellation in them is exact).
+  // Slow: the (gamma - 1), beta gamma form on the one component, which leaves every
+  // coordinate exact for the identity and keeps the digits of a small a beside a large t.
+  template <bool Fast>
+  EIGENZEIT_FORCE_INLINE void kernel_axis(W t, W t_lo, W xk, T& to, T& xko) const {
+    const W sign = n_[axis_].hi;
+    const W a = sign * xk;
+    if constexpr (Fast) {
+      const W p = (t + a) + t_lo;
+      const W m = (t - a) + t_lo;
+      const W dp = dh_ * p, em = eh_ * m;
+      to = T(dp + em);
+      xko = T(sign * (dp - em));
+    } else {
+      to = T(t + (t_lo + (gm1_ * t - bg_ * a)));
+      xko = T(xk + sign * (gm1_ * a - bg_ * t));
+    }
   }
 
-  void axis_blocks(T* t, T* xk, std::size_t n) const {
-    for (std::size_t i = 0; i < n; ++i) kernel_axis(t[i], T(0), xk[i], t[i], xk[i]);
-  }
-
-  EIGENZEIT_FORCE_INLINE void kernel_fast(T t, T t_lo, T x, T y, T z, T& to, T& xo, T& yo, T& zo) const {
-    const numeric::dd<T> a = along(x, y, z);
+  EIGENZEIT_FORCE_INLINE void kernel_fast(W t, W t_lo, W x, W y, W z, T& to, T& xo, T& yo, T& zo) const {
+    const numeric::dd<W> a = along(x, y, z);
     // p = t + a, m = t - a: two_sum of t and a.hi is exact, a.lo added once.
-    const numeric::dd<T> ps = numeric::two_sum(t, a.hi);
-    const numeric::dd<T> ms = numeric::two_sum(t, -a.hi);
-    const T p = ps.hi + (ps.lo + (a.lo + t_lo));
-    const T m = ms.hi + (ms.lo - (a.lo - t_lo));
-    const T dp = dh_ * p, em = eh_ * m;
-    const T ta = dp + em;
-    const T aa = dp - em;
+    const numeric::dd<W> ps = numeric::two_sum(t, a.hi);
+    const numeric::dd<W> ms = numeric::two_sum(t, -a.hi);
+    const W p = ps.hi + (ps.lo + (a.lo + t_lo));
+    const W m = ms.hi + (ms.lo - (a.lo - t_lo));
+    const W dp = dh_ * p, em = eh_ * m;
+    const W ta = dp + em;
+    const W aa = dp - em;
     // x' = (x - a n) + a' n, the perpendicular part from one fma against a.hi n.hi.
-    const T nx = n_[0].hi, ny = n_[1].hi, nz = n_[2].hi;
-    const T px = -numeric::fms(a.hi, nx, x) - (a.lo * nx + a.hi * n_[0].lo);
-    const T py = -numeric::fms(a.hi, ny, y) - (a.lo * ny + a.hi * n_[1].lo);
-    const T pz = -numeric::fms(a.hi, nz, z) - (a.lo * nz + a.hi * n_[2].lo);
-    to = ta;
-    xo = px + aa * nx;
-    yo = py + aa * ny;
-    zo = pz + aa * nz;
+    const W nx = n_[0].hi, ny = n_[1].hi, nz = n_[2].hi;
+    const W px = -numeric::fms(a.hi, nx, x) - (a.lo * nx + a.hi * n_[0].lo);
+    const W py = -numeric::fms(a.hi, ny, y) - (a.lo * ny + a.hi * n_[1].lo);
+    const W pz = -numeric::fms(a.hi, nz, z) - (a.lo * nz + a.hi * n_[2].lo);
+    to = T(ta);
+    xo = T(px + aa * nx);
+    yo = T(py + aa * ny);
+    zo = T(pz + aa * nz);
   }
 
   template <class V>
@@ -380,9 +454,10 @@ class lorentz_boost {
   template <class Policy>
   void set_invalid(const char* function, const char* message, T value, const Policy& pol) {
     const T nan = numeric::domain_error<T>(function, message, value, pol);
-    for (auto& c : n_) c = {nan, nan};
-    m_ = u_ = {nan, nan};
-    gm1_ = bg_ = dh_ = eh_ = nan;
+    const W wnan = W(nan);
+    for (auto& c : n_) c = {wnan, wnan};
+    m_ = u_ = {wnan, wnan};
+    gm1_ = bg_ = dh_ = eh_ = wnan;
     s_ = eigenzeit::speed<T>::from_beta(nan, nan_policy());
     kind_ = kind::slow;
   }
@@ -392,38 +467,39 @@ class lorentz_boost {
   void prepare_checked(const Policy& pol) {
     using std::isfinite;
     prepare();
-    if (!isfinite(eh_))
+    if (!isfinite(eh_) || !isfinite(T(eh_)))
       set_invalid("eigenzeit::lorentz_boost<%1%>", "gamma = %1%, but gamma (1 + beta) must be finite",
                   s_.gamma(), pol);
   }
 
   void prepare() {
-    const numeric::dd<T> g = s_.gamma_words();
-    m_ = detail::gamma_m1_words(s_);
-    u_ = detail::proper_speed_words(s_);
-    gm1_ = s_.gamma_m1();
-    bg_ = s_.proper_speed();
-    const numeric::dd<T> e = numeric::dd_add(g, u_);  // gamma (1 + beta) = e^rapidity
-    const numeric::dd<T> d = numeric::dd_div(numeric::dd<T>{T(1), T(0)}, e);
+    const numeric::dd<W> g = detail::words_as<W>(s_.gamma_words());
+    m_ = detail::words_as<W>(detail::gamma_m1_words(s_));
+    u_ = detail::words_as<W>(detail::proper_speed_words(s_));
+    gm1_ = m_.hi + m_.lo;
+    bg_ = u_.hi + u_.lo;
+    const numeric::dd<W> e = numeric::dd_add(g, u_);  // gamma (1 + beta) = e^rapidity
+    const numeric::dd<W> d = numeric::dd_div(numeric::dd<W>{W(1), W(0)}, e);
     eh_ = (e.hi + e.lo) / 2;  // halving is exact (e >= 1, d >= 1 / max)
     dh_ = (d.hi + d.lo) / 2;
     classify();
   }
 
-  // Chooses the kernel: an exact coordinate axis takes the light-cone form on one component
-  // at every speed; otherwise beta > 1/4 takes the fast kernel (see the top of the file).
+  // Chooses the kernel: beta > 1/4 takes a fast form (see the top of the file), and an exact
+  // coordinate axis its one-component variant.
   void classify() {
+    const bool fast = s_.beta() > T(0.25);
     for (int k = 0; k < 3; ++k) {
-      const bool unit = (n_[k].hi == T(1) || n_[k].hi == T(-1)) && n_[k].lo == 0;
+      const bool unit = (n_[k].hi == W(1) || n_[k].hi == W(-1)) && n_[k].lo == 0;
       const bool others_zero = n_[(k + 1) % 3].hi == 0 && n_[(k + 2) % 3].hi == 0 &&
                                n_[(k + 1) % 3].lo == 0 && n_[(k + 2) % 3].lo == 0;
       if (unit && others_zero) {
-        kind_ = kind::axis;
+        kind_ = fast ? kind::axis_fast : kind::axis_slow;
         axis_ = k;
         return;
       }
     }
-    kind_ = s_.beta() > T(0.25) ? kind::fast : kind::slow;
+    kind_ = fast ? kind::fast : kind::slow;
   }
 };
 

@@ -166,19 +166,30 @@ inline numeric::dd<T> norm_words(const vec3<T>& v, int& e) {
 }
 
 /// The unit vector along v in double-word components (hi + lo per component, relative error
-/// O(u^2)), for v finite and nonzero.
+/// O(u^2)), for v finite and nonzero.  Formed in two steps, w = v / max|v_i| (the largest
+/// component becomes exactly +-1) and then w / |w|: the first quotients are correctly rounded
+/// double-word values of the exact ratios, so any two vectors that are exact multiples of one
+/// another (3 v, -v, v / 7 where exact) get identical (or exactly opposite) unit words.
 template <class T>
 struct unit_words {
   numeric::dd<T> x, y, z;
 };
 
 template <class T>
-inline unit_words<T> unit_words_of(const vec3<T>& v) {
+inline unit_words<T> unit_words_of(const vec3<T>& v_in) {
+  // First a power-of-two scaling (exact) so that the quotients' residuals stay normal even
+  // for subnormal components.
   int e = 0;
-  const vec3<T> s = scaled(v, e);
-  const numeric::dd<T> n = numeric::dd_sqrt(sum_of_squares_words(s));
-  return {numeric::dd_div(numeric::dd<T>{s.x, T(0)}, n), numeric::dd_div(numeric::dd<T>{s.y, T(0)}, n),
-          numeric::dd_div(numeric::dd<T>{s.z, T(0)}, n)};
+  const vec3<T> v = scaled(v_in, e);
+  const numeric::dd<T> m{max_abs(v), T(0)};
+  const numeric::dd<T> w[3] = {numeric::dd_div(numeric::dd<T>{v.x, T(0)}, m),
+                               numeric::dd_div(numeric::dd<T>{v.y, T(0)}, m),
+                               numeric::dd_div(numeric::dd<T>{v.z, T(0)}, m)};
+  numeric::dd<T> q = numeric::dd_mul(w[0], w[0]);
+  q = numeric::dd_add(q, numeric::dd_mul(w[1], w[1]));
+  q = numeric::dd_add(q, numeric::dd_mul(w[2], w[2]));
+  const numeric::dd<T> n = numeric::dd_sqrt(q);
+  return {numeric::dd_div(w[0], n), numeric::dd_div(w[1], n), numeric::dd_div(w[2], n)};
 }
 
 template <class T>
@@ -233,8 +244,10 @@ template <class T>
 inline T norm(const vec3<T>& v) {
   using std::isfinite;
   using std::ldexp;
+  using std::isinf;
   const T m = detail::max_abs(v);
-  if (m == 0 || !isfinite(m)) return m + (v.x + v.y + v.z) * T(0);  // 0, inf, or NaN
+  if (isinf(v.x) || isinf(v.y) || isinf(v.z)) return std::numeric_limits<T>::infinity();
+  if (m == 0 || !isfinite(m)) return m + (v.x + v.y + v.z);  // 0 or NaN
   if (detail::in_square_range(m)) {
     const numeric::dd<T> n = numeric::dd_sqrt(detail::sum_of_squares_words(v));
     return n.hi + n.lo;
@@ -331,14 +344,18 @@ inline T invariant_mass(const four_vector<T>& v, const Policy& pol = Policy()) {
     d = detail::exact_sum(terms);  // (t^2 - r^2) 2^-2e, rounded once
   }
   if (d < 0) {
-    // |r| <= (1 + 4 eps)|t|  <=>  r^2 - t^2 <= (8 eps + 16 eps^2) t^2: a null vector off by rounding.
+    // |r| <= (1 + 4 eps)|t|  <=>  r^2 - t^2 <= (8 eps + 16 eps^2) t^2: a null vector off by
+    // rounding.  The bound is formed with a relative margin of 4 eps, so that a vector exactly
+    // on the boundary is not refused by the bound's own rounding.
     const T eps = std::numeric_limits<T>::epsilon();
-    if (-d <= 8 * eps * (tt.hi + tt.lo)) return T(0);
+    if (-d <= (8 * eps) * (tt.hi + tt.lo) * (1 + 4 * eps)) return T(0);
+    // Reported in the input's units (inf if the square overflows).
+    const T shown = e == 0 ? d : T(ldexp(d, 2 * e));
     return numeric::domain_error<T>(
         function,
-        "t^2 - |r|^2 = %1% (in units of the largest component squared): the vector is spacelike "
-        "by more than rounding (|r| > (1 + 4 epsilon)|t|) and has no mass",
-        d, pol);
+        "t^2 - |r|^2 = %1%: the vector is spacelike by more than rounding "
+        "(|r| > (1 + 4 epsilon)|t|) and has no mass",
+        shown, pol);
   }
   const T m = sqrt(d);
   return e == 0 ? m : T(ldexp(m, e));

@@ -33,6 +33,7 @@
 #define EIGENZEIT_FRAMES_COMPOSE_HPP
 
 #include <cmath>
+#include <limits>
 
 #include <eigenzeit/frames/lorentz_boost.hpp>
 #include <eigenzeit/frames/vectors.hpp>
@@ -123,36 +124,77 @@ inline boost_composition<T> compose(const lorentz_boost<T>& first, const lorentz
   const dd<T> u1 = detail::proper_speed_words(s1), u2 = detail::proper_speed_words(s2);
   const dd<T> one = detail::dd_one<T>();
 
-  // cos(theta), and sin(theta) = |n1 x n2| (absolute errors O(u^2)).
+  // The products below reach gamma1 gamma2: refuse, naming compose, where they would overflow
+  // (gamma1 gamma2 > max / 16, e.g. two boosts with gamma 1e160 and 1e150 in double, even
+  // where the composite itself would be finite: a domain error, never a wrong number).
+  {
+    using std::isfinite;
+    const T product = g1.hi * g2.hi;
+    if (!(product <= std::numeric_limits<T>::max() / 16)) {
+      const T nan = numeric::domain_error<T>(
+          "eigenzeit::compose(lorentz_boost<%1%>, lorentz_boost<%1%>)",
+          "gamma1 gamma2 = %1%: the composition of two boosts this fast is beyond the range of "
+          "the type (gamma1 gamma2 must stay below its largest finite value / 16)",
+          isfinite(product) ? product : std::numeric_limits<T>::infinity(), pol);
+      const speed<T> bad = speed<T>::from_beta(nan, nan_policy());
+      return {lorentz_boost<T>::from_unit_words({nan, nan}, {nan, nan}, {nan, nan}, bad),
+              {{nan, nan, nan}, nan}};
+    }
+  }
+
+  // cos(theta), and sin(theta) = |n1 x n2| (absolute errors O(u^2)).  Each component of the
+  // cross product is written n1_i n2_j - n2_i n1_j, with the factor from n1 first in both
+  // products, so that equal or opposite unit words give exactly zero (whatever contraction
+  // of a * b + c the compiler applies inside dd_mul).  Parallel directions given with
+  // lengths that are not a power of two apart have unit words that differ by ~u^2, and give
+  // an angle of that order (about 1e-32 rad in double) instead of 0.
   const dd<T> c = detail::dd_dot3(n1, n2);
-  const dd<T> cr[3] = {detail::dd_sub(dd_mul(n1[1], n2[2]), dd_mul(n1[2], n2[1])),
-                       detail::dd_sub(dd_mul(n1[2], n2[0]), dd_mul(n1[0], n2[2])),
-                       detail::dd_sub(dd_mul(n1[0], n2[1]), dd_mul(n1[1], n2[0]))};
+  const dd<T> cr[3] = {detail::dd_sub(dd_mul(n1[1], n2[2]), dd_mul(n2[1], n1[2])),
+                       detail::dd_sub(dd_mul(n1[2], n2[0]), dd_mul(n2[2], n1[0])),
+                       detail::dd_sub(dd_mul(n1[0], n2[1]), dd_mul(n2[0], n1[1]))};
   const dd<T> sin_theta = numeric::dd_sqrt(detail::dd_dot3(cr, cr));
   const dd<T> u1u2 = dd_mul(u1, u2);
 
-  // gamma_c - 1 and, for cos < 0, 1 + cos = |n1 + n2|^2 / 2.
+  // gamma_c - 1, and the composite proper velocity U = u1 n1 + k u2 n2 with
+  // k = gamma1 + U1 U2 cos / (gamma2 + 1), each in a form without cancellation.
   dd<T> gm1;
   dd<T> one_plus_cos{T(0), T(0)};
+  dd<T> w[3];
   if (c.hi >= 0) {
     gm1 = dd_add(dd_add(dd_mul(m1, m2), dd_add(m1, m2)), dd_mul(u1u2, c));
+    const dd<T> k = dd_add(g1, dd_div(dd_mul(u1u2, c), dd_add(g2, one)));
+    const dd<T> uk = dd_mul(u2, k);
+    for (int i = 0; i < 3; ++i) w[i] = dd_add(dd_mul(u1, n1[i]), dd_mul(uk, n2[i]));
   } else {
-    const dd<T> sum[3] = {dd_add(n1[0], n2[0]), dd_add(n1[1], n2[1]), dd_add(n1[2], n2[2])};
-    const dd<T> q = detail::dd_dot3(sum, sum);
+    // sigma = n1 + n2 (short: nearly opposite directions) and 1 + cos = |sigma|^2 / 2.
+    const dd<T> sigma[3] = {dd_add(n1[0], n2[0]), dd_add(n1[1], n2[1]), dd_add(n1[2], n2[2])};
+    const dd<T> q = detail::dd_dot3(sigma, sigma);
     one_plus_cos = {q.hi / 2, q.lo / 2};
-    const dd<T> x = detail::dd_sub(dd_mul(g1, u2), dd_mul(u1, g2));
+    // X = gamma1 U2 - U1 gamma2 = gamma1 gamma2 (beta2 - beta1), the difference of the betas
+    // taken from their words (exact where both high words are 1: the deficits' difference).
+    const dd<T> b1 = s1.beta_words(), b2 = s2.beta_words();
+    const dd<T> db0 = numeric::two_sum(b2.hi, -b1.hi);
+    const dd<T> db = numeric::two_sum(db0.hi, db0.lo + (b2.lo - b1.lo));
+    const dd<T> x = dd_mul(dd_mul(g1, g2), db);
     const dd<T> x2 = dd_mul(x, x);
-    const dd<T> y = dd_div(x2, dd_add(one, numeric::dd_sqrt(dd_add(one, x2))));
+    const dd<T> y = dd_div(x2, dd_add(one, numeric::dd_sqrt(dd_add(one, x2))));  // g1 g2 - U1 U2 - 1
     gm1 = dd_add(y, dd_mul(u1u2, one_plus_cos));
+    // U = (U1 - k U2) n1 + k U2 sigma, with
+    //   U1 - k U2 = -X - U1 U2^2 (1 + cos) / (gamma2 + 1)
+    //   k = 1/(gamma1 + U1) + U1 (1 - t2) + U1 t2 (1 + cos),  t2 = U2 / (gamma2 + 1),
+    //   1 - t2 = (1 + 1/(gamma2 + U2)) / (gamma2 + 1)          (positive terms)
+    const dd<T> g2p1 = dd_add(g2, one);
+    const dd<T> t2 = dd_div(u2, g2p1);
+    const dd<T> one_minus_t2 = dd_div(dd_add(one, dd_div(one, dd_add(g2, u2))), g2p1);
+    const dd<T> k = dd_add(dd_add(dd_div(one, dd_add(g1, u1)), dd_mul(u1, one_minus_t2)),
+                           dd_mul(dd_mul(u1, t2), one_plus_cos));
+    const dd<T> along = detail::dd_sub(detail::dd_neg(x), dd_div(dd_mul(dd_mul(u1u2, u2), one_plus_cos), g2p1));
+    const dd<T> uk = dd_mul(u2, k);
+    for (int i = 0; i < 3; ++i) w[i] = dd_add(dd_mul(along, n1[i]), dd_mul(uk, sigma[i]));
   }
   gm1 = numeric::fast_two_sum(gm1.hi, gm1.lo);
   const speed<T> sc = speed<T>::from_gamma_m1_words(gm1, pol);
 
-  // Direction of U = u1 + u2 (gamma1 + U1 U2 cos / (gamma2 + 1)), scaled before squaring.
-  const dd<T> k = dd_add(g1, dd_div(dd_mul(u1u2, c), dd_add(g2, one)));
-  const dd<T> uk = dd_mul(u2, k);
-  dd<T> w[3];
-  for (int i = 0; i < 3; ++i) w[i] = dd_add(dd_mul(u1, n1[i]), dd_mul(uk, n2[i]));
   lorentz_boost<T> boost;
   const T wmax = detail::max_abs(vec3<T>{w[0].hi, w[1].hi, w[2].hi});
   using std::isfinite;

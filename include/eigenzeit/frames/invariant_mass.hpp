@@ -115,18 +115,21 @@ inline numeric::guarded_result<T> invariant_mass(const Range& momenta,
   using std::ilogb;
   using std::max;
   // One power-of-two scale for all: the largest mass or component goes to [1, 2).
+  using std::isfinite;
   T big = T(0);
   std::size_t n = 0;
   for (const momentum<T>& q : momenta) {
-    big = max(big, max(q.mass(), detail::max_abs(q.p())));
+    const T largest = max(q.mass(), detail::max_abs(q.p()));
+    if (!isfinite(q.mass()) || !detail::all_finite(q.p())) {
+      // A momentum made invalid under a NaN policy (its mass and components are NaN).
+      const T nan = numeric::domain_error<T>("eigenzeit::invariant_mass(range of momentum<%1%>)",
+                                             "a momentum has mass %1%: every momentum in the range "
+                                             "must be valid (finite)",
+                                             q.mass(), pol);
+      return {nan, nan, 0, false};
+    }
+    big = max(big, largest);
     ++n;
-  }
-  using std::isfinite;
-  if (!isfinite(big)) {
-    const T nan = numeric::domain_error<T>("eigenzeit::invariant_mass(range of momentum<%1%>)",
-                                           "largest mass or component = %1%, but every momentum "
-                                           "must be valid (finite)", big, pol);
-    return {nan, nan, 0, false};
   }
   const int e = big > 0 ? static_cast<int>(ilogb(big)) : 0;
   auto evaluate = [&momenta, e, n](auto tag) {

@@ -90,16 +90,29 @@ class momentum {
 
   /// E - m = |p|^2 / (E + m), within 1 ulp, no cancellation for slow particles.
   T kinetic_energy() const {
+    using std::ilogb;
+    using std::isfinite;
     using std::ldexp;
+    const T pmax = detail::max_abs(p_);
+    if (pmax == 0 || !isfinite(pmax) || !isfinite(m_)) return pmax == 0 ? T(0) * m_ : pmax + m_;
     int e = 0;
     const numeric::dd<T> w = energy_words(e);
-    if (w.hi == 0) return w.hi;
-    T ms;
-    vec3<T> ps;
-    scaled_parts(e, ms, ps);
+    if (e == 0 && detail::in_square_range(pmax)) {
+      const numeric::dd<T> p2 = detail::sum_of_squares_words(p_);
+      const numeric::dd<T> k = numeric::dd_div(p2, numeric::dd_add(w, numeric::dd<T>{m_, T(0)}));
+      return k.hi + k.lo;
+    }
+    // K = |p|^2 / (E + m) with |p| in units of 2^ep (its own exponent: |p|^2 may be far below
+    // m^2, and K still normal) and E + m in units of 2^eb (the larger of m and |p_i|):
+    // K = (|p|/2^ep)^2 / ((E + m)/2^eb) 2^(2 ep - eb).
+    const int eb = e != 0 ? e : static_cast<int>(ilogb(std::max(m_, pmax)));
+    const numeric::dd<T> wb = e != 0 ? w : numeric::dd_ldexp(w, -eb);
+    int ep = 0;
+    const vec3<T> ps = detail::scaled(p_, ep);
     const numeric::dd<T> p2 = detail::sum_of_squares_words(ps);
-    const numeric::dd<T> k = numeric::dd_div(p2, numeric::dd_add(w, numeric::dd<T>{ms, T(0)}));
-    return e == 0 ? T(k.hi + k.lo) : T(ldexp(k.hi + k.lo, e));
+    const numeric::dd<T> den = numeric::dd_add(wb, numeric::dd<T>{T(ldexp(m_, -eb)), T(0)});
+    const numeric::dd<T> k = numeric::dd_div(p2, den);
+    return T(ldexp(k.hi + k.lo, 2 * ep - eb));
   }
 
   /// The speed (see the top).  A massless particle moves at c, which speed<T> does not hold:
@@ -108,8 +121,13 @@ class momentum {
   eigenzeit::speed<T> speed(const Policy& pol = Policy()) const {
     using std::ilogb;
     using std::ldexp;
-    if (!(m_ > T(0)))
-      return eigenzeit::speed<T>::from_momentum(T(0), m_, pol);  // reports mass = 0 (or NaN)
+    if (!(m_ > T(0))) {
+      numeric::domain_error<T>("eigenzeit::momentum<%1%>::speed()",
+                               "mass = %1%: a massless particle moves at c, which speed<T> does not "
+                               "hold (it needs mass > 0)",
+                               m_, pol);
+      return eigenzeit::speed<T>::from_beta(std::numeric_limits<T>::quiet_NaN(), nan_policy());
+    }
     if (detail::max_abs(p_) == 0) return eigenzeit::speed<T>();
     int e = 0;
     const numeric::dd<T> n = detail::norm_words(p_, e);
@@ -131,17 +149,12 @@ class momentum {
   four_vector<T> to_four_vector() const { return make_four_vector(energy(), p_); }
 
   /// The same particle seen from the frame the boost leads to: the same mass, and the
-  /// momentum from the boost applied to (E, p) with E carried as a double-word number, so the
-  /// result is as accurate as for an exactly on-shell input.
+  /// momentum from lorentz_boost::apply_on_shell, which never forms E - n.p by subtraction,
+  /// so the result is as accurate as for an exactly on-shell input at every Lorentz factor.
   momentum boosted(const lorentz_boost<T>& b) const {
-    using std::ldexp;
-    int e = 0;
-    numeric::dd<T> w = energy_words(e);
-    if (e != 0) w = numeric::dd_ldexp(w, e);
-    const four_vector<T> v = b.apply(w, p_);
     momentum r;
     r.m_ = m_;
-    r.p_ = v.spatial();
+    r.p_ = b.apply_on_shell(m_, p_).spatial();
     return r;
   }
 

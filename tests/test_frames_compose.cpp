@@ -45,6 +45,7 @@ using eigenzeit::speed;
 using eigenzeit::vec3;
 using ez_test::mp_four;
 using ez_test::mp_vec3;
+using ez_test::hex;
 using ez_test::mpf;
 using ez_test::type_name;
 
@@ -58,21 +59,6 @@ long sample_count(long full) { return ez_test::quick() ? std::max(60L, full / 20
 
 enum class made_by { beta, deficit, velocity, gamma };
 
-template <class T>
-std::string hex(const T& x) {
-  char buf[64];
-  if constexpr (std::is_same<T, long double>::value) {
-    std::snprintf(buf, sizeof buf, "%La", x);
-  } else {
-    std::snprintf(buf, sizeof buf, "%a", static_cast<double>(x));
-  }
-  return buf;
-}
-
-template <class T>
-std::string hex(const vec3<T>& v) {
-  return "{" + hex(v.x) + ", " + hex(v.y) + ", " + hex(v.z) + "}";
-}
 
 template <class T>
 mpf to_mpf(const T& x) {

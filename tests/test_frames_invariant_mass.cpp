@@ -43,7 +43,10 @@ using eigenzeit::speed;
 using eigenzeit::vec3;
 using ez_test::mp_four;
 using ez_test::mp_vec3;
+using ez_test::hex;
 using ez_test::mpf;
+using ez_test::precision_scope;
+using ez_test::stats;
 using ez_test::type_name;
 
 namespace {
@@ -59,32 +62,7 @@ const double m_proton = 938.27208816;     // CODATA 2018
 // PDG, Review of Particle Physics 2020, typed from memory:
 const double m_pion = 139.57039;  // pi+-, PDG 2020
 
-/// Sets the MPFR working precision for its lifetime.
-struct precision_scope {
-  unsigned saved;
-  explicit precision_scope(unsigned bits) : saved(mpf::default_precision()) {
-    ez_test::set_frames_bits(bits);
-  }
-  ~precision_scope() { mpf::default_precision(saved); }
-  precision_scope(const precision_scope&) = delete;
-  precision_scope& operator=(const precision_scope&) = delete;
-};
 
-std::string hex(double x) {
-  char b[64];
-  std::snprintf(b, sizeof b, "%a", x);
-  return b;
-}
-std::string hex(float x) { return hex(static_cast<double>(x)); }
-std::string hex(long double x) {
-  char b[64];
-  std::snprintf(b, sizeof b, "%La", x);
-  return b;
-}
-template <class T>
-std::string hex(const momentum<T>& q) {
-  return "{mass " + hex(q.mass()) + ", p (" + hex(q.p().x) + ", " + hex(q.p().y) + ", " + hex(q.p().z) + ")}";
-}
 
 /// |got - ref| in ulps of T at the binade of `scale` (subnormal spacing below the normal
 /// range); infinite if got is not finite.
@@ -110,21 +88,6 @@ double ulp_of(T x) {
   return static_cast<double>(std::ldexp(static_cast<long double>(1), std::ilogb(x) + 1 - std::numeric_limits<T>::digits));
 }
 
-struct stats {
-  long n = 0;
-  double max = 0, sum = 0;
-  std::string worst;
-  bool add(double e) {
-    ++n;
-    sum += e;
-    if (n == 1 || e > max) {
-      max = e;
-      return true;
-    }
-    return false;
-  }
-  double mean() const { return n ? sum / static_cast<double>(n) : 0.0; }
-};
 
 /// The textbook formula's errors over its finite positive results, and the count of results
 /// that are 0 (where the exact mass is not), negative (M^2 < 0) or NaN / infinite.

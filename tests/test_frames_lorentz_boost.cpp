@@ -44,7 +44,10 @@ using eigenzeit::vec3;
 using ez_test::mp_boost;
 using ez_test::mp_four;
 using ez_test::mp_vec3;
+using ez_test::hex;
 using ez_test::mpf;
+using ez_test::round_to;
+using ez_test::stats;
 using ez_test::type_name;
 
 namespace {
@@ -59,51 +62,7 @@ constexpr double qnan = std::numeric_limits<double>::quiet_NaN();
 
 // ---- printing and bookkeeping ---------------------------------------------------------------
 
-template <class T>
-std::string hex(const T& x) {
-  char buf[96];
-  if constexpr (std::is_same<T, long double>::value) std::snprintf(buf, sizeof buf, "%La", x);
-  else std::snprintf(buf, sizeof buf, "%a", static_cast<double>(x));
-  return buf;
-}
-// (Built by appending: g++ 12 reports a false -Wrestrict inside chains of string operator+.)
-template <class T>
-std::string hex(const vec3<T>& v) {
-  std::string s("{");
-  s.append(hex(v.x)).append(", ").append(hex(v.y)).append(", ").append(hex(v.z)).append("}");
-  return s;
-}
-template <class T>
-std::string hex(const four_vector<T>& v) {
-  std::string s("{");
-  s.append(hex(v.t)).append(", ").append(hex(v.x)).append(", ").append(hex(v.y)).append(", ");
-  s.append(hex(v.z)).append("}");
-  return s;
-}
 
-/// Max and mean of an error measure and the input of the maximum.  NaN counts as infinite.
-struct stats {
-  long n = 0;
-  double max = 0, sum = 0;
-  std::string worst;
-  template <class F>
-  void add(double e, F&& where) {
-    if (std::isnan(e)) e = inf;
-    ++n;
-    sum += e;
-    if (e > max || (n == 1 && e >= max)) {
-      max = e;
-      worst = where();
-    }
-  }
-  double mean() const { return n ? sum / static_cast<double>(n) : 0.0; }
-};
-
-template <class T>
-T round_to(const mpf& x) {
-  if constexpr (std::is_floating_point<T>::value) return ez_test::round_to<T>(x.backend().data());
-  else return x.template convert_to<T>();
-}
 
 template <class T>
 bool same_bits(const T& a, const T& b) {

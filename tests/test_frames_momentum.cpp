@@ -37,7 +37,10 @@ using eigenzeit::speed;
 using eigenzeit::vec3;
 using ez_test::mp_four;
 using ez_test::mp_vec3;
+using ez_test::hex;
 using ez_test::mpf;
+using ez_test::precision_scope;
+using ez_test::stats;
 using ez_test::type_name;
 
 namespace {
@@ -47,36 +50,7 @@ long sample_count(long full) { return ez_test::quick() ? std::max(100L, full / 2
 constexpr double infinity = std::numeric_limits<double>::infinity();
 constexpr unsigned reference_bits = 320;
 
-/// Sets the MPFR working precision for its lifetime.
-struct precision_scope {
-  unsigned saved;
-  explicit precision_scope(unsigned bits) : saved(mpf::default_precision()) {
-    ez_test::set_frames_bits(bits);
-  }
-  ~precision_scope() { mpf::default_precision(saved); }
-  precision_scope(const precision_scope&) = delete;
-  precision_scope& operator=(const precision_scope&) = delete;
-};
 
-std::string hex(double x) {
-  char b[64];
-  std::snprintf(b, sizeof b, "%a", x);
-  return b;
-}
-std::string hex(float x) { return hex(static_cast<double>(x)); }
-std::string hex(long double x) {
-  char b[64];
-  std::snprintf(b, sizeof b, "%La", x);
-  return b;
-}
-template <class T>
-std::string hex(const vec3<T>& v) {
-  return "(" + hex(v.x) + ", " + hex(v.y) + ", " + hex(v.z) + ")";
-}
-template <class T>
-std::string hex(const momentum<T>& q) {
-  return "mass " + hex(q.mass()) + " p " + hex(q.p());
-}
 
 /// |got - ref| in ulps of T at the binade of `scale` (below the normal range, in units of the
 /// subnormal spacing); infinite if got is not finite.
@@ -96,22 +70,6 @@ double ulps(const T& got, const mpf& ref) {
   return ulps(got, ref, ref);
 }
 
-/// Max and mean of an error measure; add() says whether the sample is the new maximum.
-struct stats {
-  long n = 0;
-  double max = 0, sum = 0;
-  std::string worst;
-  bool add(double e) {
-    ++n;
-    sum += e;
-    if (n == 1 || e > max) {
-      max = e;
-      return true;
-    }
-    return false;
-  }
-  double mean() const { return n ? sum / static_cast<double>(n) : 0.0; }
-};
 
 /// The textbook formula's errors: finite nonzero results in `err`, the others (0 where the
 /// exact value is not, inf, NaN, negative) counted in `lost`.

@@ -24,7 +24,10 @@
 
 using eigenzeit::four_vector;
 using eigenzeit::vec3;
+using ez_test::hex;
 using ez_test::mpf;
+using ez_test::round_to;
+using ez_test::stats;
 using ez_test::type_name;
 
 namespace {
@@ -39,46 +42,6 @@ constexpr double inf = std::numeric_limits<double>::infinity();
 
 // ---- printing -------------------------------------------------------------------------------
 
-template <class T>
-std::string hex(const T& x) {
-  char buf[96];
-  if constexpr (std::is_same<T, long double>::value) std::snprintf(buf, sizeof buf, "%La", x);
-  else std::snprintf(buf, sizeof buf, "%a", static_cast<double>(x));
-  return buf;
-}
-// (Built by appending: g++ 12 reports a false -Wrestrict inside chains of string operator+.)
-template <class T>
-std::string hex(const vec3<T>& v) {
-  std::string s("{");
-  s.append(hex(v.x)).append(", ").append(hex(v.y)).append(", ").append(hex(v.z)).append("}");
-  return s;
-}
-template <class T>
-std::string hex(const four_vector<T>& v) {
-  std::string s("{");
-  s.append(hex(v.t)).append(", ").append(hex(v.x)).append(", ").append(hex(v.y)).append(", ");
-  s.append(hex(v.z)).append("}");
-  return s;
-}
-
-/// Max and mean of an error measure, and the input of the maximum (hex floats).  A NaN error
-/// counts as infinite.
-struct stats {
-  long n = 0;
-  double max = 0, sum = 0;
-  std::string worst;
-  template <class F>
-  void add(double e, F&& where) {
-    if (std::isnan(e)) e = inf;
-    ++n;
-    sum += e;
-    if (e > max || (n == 1 && e >= max)) {
-      max = e;
-      worst = where();
-    }
-  }
-  double mean() const { return n ? sum / static_cast<double>(n) : 0.0; }
-};
 
 // ---- reference helpers ----------------------------------------------------------------------
 
@@ -89,12 +52,6 @@ double ulps(T got, const mpf& ref) {
   return ez_test::measure<T>(got, ref.backend().data()).frac;
 }
 
-/// Correct rounding of an MPFR value to T (built-in types through MPFR's own getters).
-template <class T>
-T round_to(const mpf& x) {
-  if constexpr (std::is_floating_point<T>::value) return ez_test::round_to<T>(x.backend().data());
-  else return x.template convert_to<T>();
-}
 
 /// |got - ref| / (|ref| eps of T): relative error in units of epsilon (multiprecision T).
 template <class T>

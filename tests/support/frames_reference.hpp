@@ -11,11 +11,17 @@
 #define EIGENZEIT_TESTS_SUPPORT_FRAMES_REFERENCE_HPP
 
 #include <cmath>
+#include <cstdio>
 #include <limits>
+#include <string>
+#include <type_traits>
 
 #include <boost/multiprecision/mpfr.hpp>
 
+#include <eigenzeit/frames/momentum.hpp>
 #include <eigenzeit/frames/vectors.hpp>
+
+#include "support/reference.hpp"
 
 namespace ez_test {
 
@@ -119,6 +125,77 @@ template <class T>
 inline double ulps_of(const T& got, const mpf& ref) {
   return ulps_of_scale<T>(got, ref, ref);
 }
+
+
+/// Sets the MPFR working precision for its lifetime.
+struct precision_scope {
+  unsigned saved;
+  explicit precision_scope(unsigned bits) : saved(mpf::default_precision()) { set_frames_bits(bits); }
+  ~precision_scope() { mpf::default_precision(saved); }
+  precision_scope(const precision_scope&) = delete;
+  precision_scope& operator=(const precision_scope&) = delete;
+};
+
+/// Correct rounding of an exact value to T (built-in types through MPFR's own getters).
+template <class T>
+inline T round_to(const mpf& x) {
+  if constexpr (std::is_floating_point<T>::value) return round_to<T>(x.backend().data());
+  else return x.template convert_to<T>();
+}
+
+// ---- printing and bookkeeping for the frames tests ------------------------------------------
+
+/// A number as a hex float ("%a"; "%La" for long double): the exact input of a failing case.
+template <class T>
+inline std::string hex(const T& x) {
+  char buf[96];
+  if constexpr (std::is_same<T, long double>::value) std::snprintf(buf, sizeof buf, "%La", x);
+  else std::snprintf(buf, sizeof buf, "%a", static_cast<double>(x));
+  return buf;
+}
+// (Built by appending: g++ 12 reports a false -Wrestrict inside chains of string operator+.)
+template <class T>
+inline std::string hex(const eigenzeit::vec3<T>& v) {
+  std::string s("{");
+  s.append(hex(v.x)).append(", ").append(hex(v.y)).append(", ").append(hex(v.z)).append("}");
+  return s;
+}
+template <class T>
+inline std::string hex(const eigenzeit::four_vector<T>& v) {
+  std::string s("{");
+  s.append(hex(v.t)).append(", ").append(hex(v.x)).append(", ").append(hex(v.y)).append(", ");
+  s.append(hex(v.z)).append("}");
+  return s;
+}
+template <class T>
+inline std::string hex(const eigenzeit::momentum<T>& q) {
+  std::string s("mass ");
+  s.append(hex(q.mass())).append(" p ").append(hex(q.p()));
+  return s;
+}
+
+/// Max and mean of an error measure, and the input of the maximum.  add(e, where) records
+/// where() (hex floats) for a new maximum; add(e) says whether e is one.  NaN counts as inf.
+struct stats {
+  long n = 0;
+  double max = 0, sum = 0;
+  std::string worst;
+  bool add(double e) {
+    if (std::isnan(e)) e = std::numeric_limits<double>::infinity();
+    ++n;
+    sum += e;
+    if (n == 1 || e > max) {
+      max = e;
+      return true;
+    }
+    return false;
+  }
+  template <class F>
+  void add(double e, F&& where) {
+    if (add(e)) worst = where();
+  }
+  double mean() const { return n ? sum / static_cast<double>(n) : 0.0; }
+};
 
 }  // namespace ez_test
 

@@ -80,16 +80,6 @@ struct boost_composition {
 namespace detail {
 
 template <class T>
-inline numeric::dd<T> dd_neg(numeric::dd<T> a) {
-  return {-a.hi, -a.lo};
-}
-
-template <class T>
-inline numeric::dd<T> dd_sub(numeric::dd<T> a, numeric::dd<T> b) {
-  return numeric::dd_add(a, dd_neg(b));
-}
-
-template <class T>
 inline numeric::dd<T> dd_dot3(const numeric::dd<T>* a, const numeric::dd<T>* b) {
   numeric::dd<T> s = numeric::dd_mul(a[0], b[0]);
   s = numeric::dd_add(s, numeric::dd_mul(a[1], b[1]));
@@ -120,8 +110,9 @@ inline boost_composition<T> compose(const lorentz_boost<T>& first, const lorentz
   const speed<T>& s1 = first.speed();
   const speed<T>& s2 = second.speed();
   const dd<T> g1 = s1.gamma_words(), g2 = s2.gamma_words();
-  const dd<T> m1 = detail::gamma_m1_words(s1), m2 = detail::gamma_m1_words(s2);
-  const dd<T> u1 = detail::proper_speed_words(s1), u2 = detail::proper_speed_words(s2);
+  const detail::boost_speed_words<T> w1 = detail::boost_speed_words_of(s1), w2 = detail::boost_speed_words_of(s2);
+  const dd<T> m1 = w1.gamma_m1, m2 = w2.gamma_m1;
+  const dd<T> u1 = w1.proper_speed, u2 = w2.proper_speed;
   const dd<T> one = detail::dd_one<T>();
 
   // The products below reach gamma1 gamma2: refuse, naming compose, where they would overflow
@@ -149,9 +140,9 @@ inline boost_composition<T> compose(const lorentz_boost<T>& first, const lorentz
   // lengths that are not a power of two apart have unit words that differ by ~u^2, and give
   // an angle of that order (about 1e-32 rad in double) instead of 0.
   const dd<T> c = detail::dd_dot3(n1, n2);
-  const dd<T> cr[3] = {detail::dd_sub(dd_mul(n1[1], n2[2]), dd_mul(n2[1], n1[2])),
-                       detail::dd_sub(dd_mul(n1[2], n2[0]), dd_mul(n2[2], n1[0])),
-                       detail::dd_sub(dd_mul(n1[0], n2[1]), dd_mul(n2[0], n1[1]))};
+  const dd<T> cr[3] = {numeric::dd_sub(dd_mul(n1[1], n2[2]), dd_mul(n2[1], n1[2])),
+                       numeric::dd_sub(dd_mul(n1[2], n2[0]), dd_mul(n2[2], n1[0])),
+                       numeric::dd_sub(dd_mul(n1[0], n2[1]), dd_mul(n2[0], n1[1]))};
   const dd<T> sin_theta = numeric::dd_sqrt(detail::dd_dot3(cr, cr));
   const dd<T> u1u2 = dd_mul(u1, u2);
 
@@ -188,7 +179,7 @@ inline boost_composition<T> compose(const lorentz_boost<T>& first, const lorentz
     const dd<T> one_minus_t2 = dd_div(dd_add(one, dd_div(one, dd_add(g2, u2))), g2p1);
     const dd<T> k = dd_add(dd_add(dd_div(one, dd_add(g1, u1)), dd_mul(u1, one_minus_t2)),
                            dd_mul(dd_mul(u1, t2), one_plus_cos));
-    const dd<T> along = detail::dd_sub(detail::dd_neg(x), dd_div(dd_mul(dd_mul(u1u2, u2), one_plus_cos), g2p1));
+    const dd<T> along = numeric::dd_sub(numeric::dd_neg(x), dd_div(dd_mul(dd_mul(u1u2, u2), one_plus_cos), g2p1));
     const dd<T> uk = dd_mul(u2, k);
     for (int i = 0; i < 3; ++i) w[i] = dd_add(dd_mul(along, n1[i]), dd_mul(uk, sigma[i]));
   }

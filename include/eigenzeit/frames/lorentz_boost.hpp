@@ -59,33 +59,22 @@ namespace detail {
 /// u (gamma - 1) into them).  From gamma = 2 on, from the gamma words: g.hi - 1 + g.lo (exact
 /// two_sum, no cancellation) and beta gamma as the product of the words.
 template <class T>
-inline numeric::dd<T> slow_root_words(const speed<T>& s, numeric::dd<T>& beta_squared) {
-  const numeric::dd<T> one{T(1), T(0)};
-  const numeric::dd<T> b = s.beta_words();
-  beta_squared = numeric::dd_mul(b, b);
-  return numeric::dd_sqrt(numeric::dd_add(one, numeric::dd<T>{-beta_squared.hi, -beta_squared.lo}));
-}
+struct boost_speed_words {
+  numeric::dd<T> gamma_m1;
+  numeric::dd<T> proper_speed;
+};
 
 template <class T>
-inline numeric::dd<T> gamma_m1_words(const speed<T>& s) {
-  const numeric::dd<T> g = s.gamma_words();
+inline boost_speed_words<T> boost_speed_words_of(const speed<T>& s) {
+  const numeric::dd<T> one{T(1), T(0)};
+  const numeric::dd<T> b = s.beta_words(), g = s.gamma_words();
   if (g.hi < T(2)) {
-    numeric::dd<T> b2;
-    const numeric::dd<T> root = slow_root_words(s, b2);
-    return numeric::dd_div(b2, numeric::dd_mul(root, numeric::dd_add(numeric::dd<T>{T(1), T(0)}, root)));
+    const numeric::dd<T> b2 = numeric::dd_mul(b, b);
+    const numeric::dd<T> root = numeric::dd_sqrt(numeric::dd_sub(one, b2));
+    return {numeric::dd_div(b2, numeric::dd_mul(root, numeric::dd_add(one, root))), numeric::dd_div(b, root)};
   }
   const numeric::dd<T> h = numeric::two_sum(g.hi, T(-1));
-  return numeric::fast_two_sum(h.hi, h.lo + g.lo);
-}
-
-template <class T>
-inline numeric::dd<T> proper_speed_words(const speed<T>& s) {
-  if (s.gamma_words().hi < T(2)) {
-    numeric::dd<T> b2;
-    const numeric::dd<T> root = slow_root_words(s, b2);
-    return numeric::dd_div(s.beta_words(), root);
-  }
-  return numeric::dd_mul(s.beta_words(), s.gamma_words());
+  return {numeric::fast_two_sum(h.hi, h.lo + g.lo), numeric::dd_mul(b, g)};
 }
 
 /// The type the boost kernels compute in: double for float (a float double-word number
@@ -278,7 +267,7 @@ class lorentz_boost {
     // p_perp = p - a n, component by component in double-word arithmetic.
     const W comp[3] = {px, py, pz};
     dd<W> perp[3];
-    for (int i = 0; i < 3; ++i) perp[i] = numeric::dd_add(numeric::two_sum(comp[i], W(0)), neg(numeric::dd_mul(a, n_[i])));
+    for (int i = 0; i < 3; ++i) perp[i] = numeric::dd_sub(dd<W>{comp[i] + W(0), W(0)}, numeric::dd_mul(a, n_[i]));  // -0 in, +0 out
     dd<W> q = numeric::two_prod(ms, ms);  // mass^2 + |p_perp|^2
     for (int i = 0; i < 3; ++i) q = numeric::dd_add(q, numeric::dd_mul(perp[i], perp[i]));
     const dd<W> energy = numeric::dd_sqrt(numeric::dd_add(q, numeric::dd_mul(a, a)));
@@ -287,14 +276,14 @@ class lorentz_boost {
       plus = numeric::dd_add(energy, a);
       minus = numeric::dd_div(q, plus);
     } else {
-      minus = numeric::dd_add(energy, neg(a));
+      minus = numeric::dd_sub(energy, a);
       plus = numeric::dd_div(q, minus);
     }
     W t2, a2;
     if (kind_ == kind::slow || kind_ == kind::axis_slow) {
       // gamma (E - beta a) = E + (gamma - 1) E - beta gamma a, and a + (gamma - 1) a - beta gamma E.
-      const dd<W> ts = numeric::dd_add(numeric::dd_mul(m_, energy), neg(numeric::dd_mul(u_, a)));
-      const dd<W> as = numeric::dd_add(numeric::dd_mul(m_, a), neg(numeric::dd_mul(u_, energy)));
+      dd<W> ts, as;
+      changes(energy, a, ts, as);
       t2 = energy.hi + (energy.lo + (ts.hi + ts.lo));
       a2 = a.hi + (a.lo + (as.hi + as.lo));
     } else {
@@ -317,9 +306,8 @@ class lorentz_boost {
     using numeric::dd;
     const dd<W> a = along(W(v.x), W(v.y), W(v.z));
     const dd<W> t{W(v.t), W(0)};
-    // da = (gamma - 1) a - beta gamma t;  dt = (gamma - 1) t - beta gamma a.
-    const dd<W> da = numeric::dd_add(numeric::dd_mul(m_, a), neg(numeric::dd_mul(u_, t)));
-    const dd<W> dt = numeric::dd_add(numeric::dd_mul(m_, t), neg(numeric::dd_mul(u_, a)));
+    dd<W> dt, da;
+    changes(t, a, dt, da);
     return {T(dt.hi + dt.lo), T(times(da, n_[0])), T(times(da, n_[1])), T(times(da, n_[2]))};
   }
 
@@ -368,7 +356,12 @@ class lorentz_boost {
   kind kind_ = kind::axis_slow;
   int axis_ = 2;  // which axis (axis_* kinds)
 
-  static numeric::dd<W> neg(numeric::dd<W> a) { return {-a.hi, -a.lo}; }
+  // The changes of the time and along-n parts, double-word throughout:
+  // dt = (gamma - 1) t - beta gamma a,  da = (gamma - 1) a - beta gamma t.
+  void changes(numeric::dd<W> t, numeric::dd<W> a, numeric::dd<W>& dt, numeric::dd<W>& da) const {
+    dt = numeric::dd_sub(numeric::dd_mul(m_, t), numeric::dd_mul(u_, a));
+    da = numeric::dd_sub(numeric::dd_mul(m_, a), numeric::dd_mul(u_, t));
+  }
 
   void set_direction(const vec3<T>& d) {
     const detail::unit_words<W> n = detail::unit_words_of(vec3<W>{W(d.x), W(d.y), W(d.z)});
@@ -527,8 +520,9 @@ class lorentz_boost {
 
   void prepare() {
     const numeric::dd<W> g = detail::words_as<W>(s_.gamma_words());
-    m_ = detail::words_as<W>(detail::gamma_m1_words(s_));
-    u_ = detail::words_as<W>(detail::proper_speed_words(s_));
+    const detail::boost_speed_words<T> w = detail::boost_speed_words_of(s_);
+    m_ = detail::words_as<W>(w.gamma_m1);
+    u_ = detail::words_as<W>(w.proper_speed);
     gm1_ = m_.hi + m_.lo;
     bg_ = u_.hi + u_.lo;
     const numeric::dd<W> e = numeric::dd_add(g, u_);  // gamma (1 + beta) = e^rapidity

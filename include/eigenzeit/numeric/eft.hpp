@@ -151,6 +151,18 @@ EIGENZEIT_HOST_DEVICE inline dd<T> dd_sqrt(dd<T> a) {
   return fast_two_sum(s, r / (s + s));
 }
 
+/// -a, exact.
+template <class T>
+EIGENZEIT_HOST_DEVICE inline dd<T> dd_neg(dd<T> a) {
+  return {-a.hi, -a.lo};
+}
+
+/// a - b as dd_add(a, -b): where the two cancel, the error is O(u^2 (|a| + |b|)) absolute.
+template <class T>
+EIGENZEIT_HOST_DEVICE inline dd<T> dd_sub(dd<T> a, dd<T> b) {
+  return dd_add(a, dd_neg(b));
+}
+
 /// Exact scaling by 2^e of both words.
 template <class T>
 inline dd<T> dd_ldexp(dd<T> a, int e) {

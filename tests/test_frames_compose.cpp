@@ -38,6 +38,7 @@
 
 #include "support/frames_reference.hpp"
 #include "support/reference.hpp"
+#include "support/sampler.hpp"
 
 using eigenzeit::compose;
 using eigenzeit::lorentz_boost;
@@ -48,6 +49,7 @@ using ez_test::mp_vec3;
 using ez_test::hex;
 using ez_test::mpf;
 using ez_test::type_name;
+using ez_test::views_of;
 
 namespace {
 
@@ -274,18 +276,6 @@ naive_result<T> naive_of(const lorentz_boost<T>& first, const lorentz_boost<T>& 
   const T K = (1 / tanh(first.speed().rapidity() / 2)) * (1 / tanh(second.speed().rapidity() / 2));
   r.angle = 2 * atan(s / (K + c));
   return r;
-}
-
-template <class T>
-void views_of(const speed<T>& s, T out[ez_test::n_views]) {
-  out[ez_test::v_beta] = s.beta();
-  out[ez_test::v_deficit] = s.beta_deficit();
-  out[ez_test::v_gamma] = s.gamma();
-  out[ez_test::v_gamma_m1] = s.gamma_m1();
-  out[ez_test::v_inv_gamma] = s.inv_gamma();
-  out[ez_test::v_dilation] = s.dilation_fraction();
-  out[ez_test::v_rapidity] = s.rapidity();
-  out[ez_test::v_proper_speed] = s.proper_speed();
 }
 
 // =============================================================================================
